@@ -1,0 +1,25 @@
+import { describe, expect, it } from 'vitest';
+import { dmxFrameTiming } from '../../../src/lib/patch';
+
+// ANSI E1.11: 250 kbit/s (44 µs a slot), break ≥ 92 µs, MAB ≥ 12 µs.
+describe('DMX512 refresh', () => {
+	it('gives a full 512-slot universe ≈ 22.7 ms, ≈ 44 Hz at minimum break and MAB', () => {
+		const t = dmxFrameTiming(512);
+		expect(t.frameUs).toBe(92 + 12 + 513 * 44);
+		expect(t.frameUs / 1000).toBeCloseTo(22.7, 1);
+		expect(Math.round(t.rateHz)).toBe(44);
+	});
+
+	it('counts the start code as a slot and honours a longer break', () => {
+		expect(dmxFrameTiming(100).frameUs).toBe(104 + 101 * 44);
+		expect(dmxFrameTiming(100, { breakUs: 176, mabUs: 20 }).frameUs).toBe(196 + 101 * 44);
+		expect(dmxFrameTiming(100, { breakUs: 50 }).frameUs).toBe(104 + 101 * 44);
+	});
+
+	it('pads very short frames to the 1204 µs minimum break-to-break (E1.11, value from memory)', () => {
+		expect(dmxFrameTiming(10).frameUs).toBe(1204);
+		expect(dmxFrameTiming(0).frameUs).toBe(1204);
+		expect(dmxFrameTiming(25).frameUs).toBe(104 + 26 * 44);
+		expect(() => dmxFrameTiming(513)).toThrow(RangeError);
+	});
+});
