@@ -1,0 +1,129 @@
+import { isHttpError, isRedirect, json, type RequestEvent } from '@sveltejs/kit';
+import { z, ZodError } from 'zod';
+import { InUseError, StaleVersionError } from './db/errors';
+
+// The JSON API's edges: one error shape, one body reader with a size limit,
+// one wrapper that turns thrown errors into that shape (DESIGN.md "JSON API").
+
+export const MAX_JSON_BYTES = 1024 * 1024;
+
+export interface ApiIssue {
+	path: (string | number)[];
+	message: string;
+}
+
+const CODE_FOR_STATUS: Record<number, string> = {
+	400: 'invalid',
+	401: 'unauthenticated',
+	403: 'forbidden',
+	404: 'not-found',
+	409: 'conflict',
+	410: 'gone',
+	413: 'too-large',
+	415: 'unsupported-type',
+	422: 'unprocessable',
+	429: 'rate-limited'
+};
+
+export function apiError(
+	status: number,
+	message: string,
+	extra: { code?: string; issues?: unknown[]; [key: string]: unknown } = {}
+): Response {
+	const { code, issues, ...rest } = extra;
+	return json(
+		{
+			error: { code: code ?? CODE_FOR_STATUS[status] ?? 'error', message, ...(issues ? { issues } : {}) },
+			...rest
+		},
+		{ status }
+	);
+}
+
+/** Thrown by handlers to answer a specific API error. */
+export class ApiError extends Error {
+	constructor(
+		public status: number,
+		message: string,
+		public extra: { code?: string; issues?: unknown[]; [key: string]: unknown } = {}
+	) {
+		super(message);
+	}
+}
+
+export function zodIssues(err: ZodError): ApiIssue[] {
+	return err.issues.map((i) => ({
+		path: i.path.filter((p): p is string | number => typeof p !== 'symbol'),
+		message: i.message
+	}));
+}
+
+async function readLimited(request: Request, limit: number): Promise<string> {
+	const declared = Number(request.headers.get('content-length') ?? 0);
+	if (declared > limit) throw new ApiError(413, `The request body is over ${limit} bytes.`);
+	if (!request.body) return '';
+	const reader = request.body.getReader();
+	const chunks: Uint8Array[] = [];
+	let size = 0;
+	for (;;) {
+		const { done, value } = await reader.read();
+		if (done) break;
+		size += value.byteLength;
+		if (size > limit) {
+			await reader.cancel();
+			throw new ApiError(413, `The request body is over ${limit} bytes.`);
+		}
+		chunks.push(value);
+	}
+	return Buffer.concat(chunks).toString('utf8');
+}
+
+/** Reads a JSON body (≤ 1 MB) and validates it; bad input answers 400 before anything is written. */
+export async function readJson<S extends z.ZodType>(
+	event: Pick<RequestEvent, 'request'>,
+	schema: S
+): Promise<z.output<S>> {
+	const type = event.request.headers.get('content-type') ?? '';
+	if (!type.includes('application/json')) {
+		throw new ApiError(415, 'Send JSON with Content-Type: application/json.');
+	}
+	const text = await readLimited(event.request, MAX_JSON_BYTES);
+	let body: unknown;
+	try {
+		body = JSON.parse(text);
+	} catch {
+		throw new ApiError(400, 'The body is not valid JSON.');
+	}
+	const parsed = schema.safeParse(body);
+	if (!parsed.success) {
+		throw new ApiError(400, 'The request is not valid.', { issues: zodIssues(parsed.error) });
+	}
+	return parsed.data;
+}
+
+/** Wraps a +server.ts handler so every refusal answers the contract's error shape. */
+export function api<E extends RequestEvent>(
+	handler: (event: E) => Promise<Response> | Response
+): (event: E) => Promise<Response> {
+	return async (event) => {
+		try {
+			return await handler(event);
+		} catch (err) {
+			if (err instanceof ApiError) return apiError(err.status, err.message, err.extra);
+			if (isHttpError(err)) {
+				return apiError(err.status, err.body.message, err.body.code ? { code: err.body.code } : {});
+			}
+			if (err instanceof StaleVersionError) {
+				return apiError(409, err.message, { code: 'stale', current: err.current });
+			}
+			if (err instanceof InUseError) {
+				return apiError(409, err.message, { code: 'in-use', usedBy: err.usedBy });
+			}
+			if (err instanceof ZodError) {
+				return apiError(400, 'The request is not valid.', { issues: zodIssues(err) });
+			}
+			if (isRedirect(err)) throw err;
+			throw err;
+		}
+	};
+}

@@ -1,0 +1,359 @@
+import { eq } from 'drizzle-orm';
+import { hashPassword } from './auth/password';
+import type { Db } from './db/index';
+import {
+	fixtureTypes,
+	fixtures,
+	memberships,
+	modeChannels,
+	modes,
+	projects,
+	receiverLabels,
+	receivers,
+	universes,
+	users,
+	type Role
+} from './db/schema';
+
+// The demo: an invented production ("The Lantern Ferry", a river drama shot on
+// a moored ferry) with invented makers and models. Nothing here describes a
+// real product.
+
+export const DEMO_PASSWORD = 'patchwright-demo';
+export const DEMO_USERS: { email: string; name: string; role: Role }[] = [
+	{ email: 'owner@demo.test', name: 'Ona Owner', role: 'owner' },
+	{ email: 'programmer@demo.test', name: 'Pim Programmer', role: 'programmer' },
+	{ email: 'electrician@demo.test', name: 'Elis Electrician', role: 'electrician' },
+	{ email: 'viewer@demo.test', name: 'Vera Viewer', role: 'viewer' }
+];
+export const DEMO_PROJECT_NAME = 'The Lantern Ferry — river unit';
+
+type Channel = {
+	offset: number | null;
+	parameter: string;
+	bits?: 8 | 16;
+	default?: number;
+	min?: number;
+	max?: number;
+	unit?: string;
+};
+
+const CCT = { min: 2000, max: 10000, unit: 'K' };
+const HUE = { min: 0, max: 360, unit: '°' };
+const PCT = { min: 0, max: 100, unit: '%' };
+
+const TYPES: { maker: string; model: string; notes: string; modes: { name: string; channels: Channel[] }[] }[] = [
+	{
+		maker: 'Hollin & Vey',
+		model: 'Skiff Panel 60',
+		notes: 'RGBW engine, 1×0.6 m soft panel, 14.4 V battery plate.',
+		modes: [
+			{
+				name: 'HSIC 8-bit',
+				channels: [
+					{ offset: 1, parameter: 'intensity', ...PCT },
+					{ offset: 2, parameter: 'hue', ...HUE },
+					{ offset: 3, parameter: 'saturation', ...PCT },
+					{ offset: 4, parameter: 'cct', default: 107, ...CCT }
+				]
+			},
+			{
+				name: 'HSIC 16-bit',
+				channels: [
+					{ offset: 1, parameter: 'intensity', bits: 16, ...PCT },
+					{ offset: 3, parameter: 'hue', bits: 16, ...HUE },
+					{ offset: 5, parameter: 'saturation', bits: 16, ...PCT },
+					{ offset: 7, parameter: 'cct', bits: 16, default: 27_000, ...CCT }
+				]
+			},
+			{
+				name: 'RGBW 8-bit',
+				channels: [
+					{ offset: 1, parameter: 'intensity', ...PCT },
+					{ offset: 2, parameter: 'red' },
+					{ offset: 3, parameter: 'green' },
+					{ offset: 4, parameter: 'blue' },
+					{ offset: 5, parameter: 'white' }
+				]
+			}
+		]
+	},
+	{
+		maker: 'Marrowlight',
+		model: 'Reed Tube 120',
+		notes: '1.2 m pixel tube; internal battery, runs about 2 h at full.',
+		modes: [
+			{
+				name: 'HSIC 8-bit',
+				channels: [
+					{ offset: 1, parameter: 'intensity', ...PCT },
+					{ offset: 2, parameter: 'hue', ...HUE },
+					{ offset: 3, parameter: 'saturation', ...PCT },
+					{ offset: 4, parameter: 'cct', ...CCT }
+				]
+			},
+			{
+				// slot 10 is reserved by the maker: a gap that still belongs to the footprint
+				name: 'HSIC 16-bit + FX',
+				channels: [
+					{ offset: 1, parameter: 'intensity', bits: 16, ...PCT },
+					{ offset: 3, parameter: 'hue', bits: 16, ...HUE },
+					{ offset: 5, parameter: 'saturation', bits: 16, ...PCT },
+					{ offset: 7, parameter: 'cct', bits: 16, ...CCT },
+					{ offset: 9, parameter: 'strobe' },
+					{ offset: 11, parameter: 'control' },
+					{ offset: null, parameter: 'pixel-fx-speed' }
+				]
+			}
+		]
+	},
+	{
+		maker: 'Tessary',
+		model: 'Lantern Ball 40',
+		notes: 'China-ball style soft source, 40 cm.',
+		modes: [
+			{ name: 'Dimmer 16-bit', channels: [{ offset: 1, parameter: 'intensity', bits: 16, ...PCT }] },
+			{
+				name: 'CCT 8-bit',
+				channels: [
+					{ offset: 1, parameter: 'intensity', ...PCT },
+					{ offset: 2, parameter: 'cct', ...CCT }
+				]
+			}
+		]
+	},
+	{
+		maker: 'Quayworks',
+		model: 'Puck 8',
+		notes: 'Palm-sized battery puck; RC input or per-parameter DMX addresses.',
+		modes: [
+			{
+				name: 'HSI 8-bit',
+				channels: [
+					{ offset: 1, parameter: 'intensity', ...PCT },
+					{ offset: 2, parameter: 'hue', ...HUE },
+					{ offset: 3, parameter: 'saturation', ...PCT }
+				]
+			}
+		]
+	},
+	{
+		maker: 'Hollin & Vey',
+		model: 'Deck Dimmer 4',
+		notes: 'Four-way mains dimmer for practicals. Mains work by a qualified electrician only.',
+		modes: [
+			{
+				name: '4 channel',
+				channels: [
+					{ offset: 1, parameter: 'intensity 1', ...PCT },
+					{ offset: 2, parameter: 'intensity 2', ...PCT },
+					{ offset: 3, parameter: 'intensity 3', ...PCT },
+					{ offset: 4, parameter: 'intensity 4', ...PCT }
+				]
+			}
+		]
+	}
+];
+
+export async function ensureDemoUsers(database: Db): Promise<Map<string, string>> {
+	const ids = new Map<string, string>();
+	let hash: string | undefined;
+	for (const u of DEMO_USERS) {
+		const existing = database.select().from(users).where(eq(users.email, u.email)).get();
+		if (existing) {
+			ids.set(u.email, existing.id);
+			continue;
+		}
+		hash ??= await hashPassword(DEMO_PASSWORD);
+		const row = database
+			.insert(users)
+			.values({ email: u.email, name: u.name, passwordHash: hash })
+			.returning()
+			.get();
+		ids.set(u.email, row.id);
+	}
+	return ids;
+}
+
+/** True when the database holds no project at all: the only time the demo is seeded automatically. */
+export function isEmpty(database: Db): boolean {
+	return !database.select({ id: projects.id }).from(projects).limit(1).get();
+}
+
+/**
+ * Seeds the demo project once. Running it again finds the project by name
+ * and the demo owner, and changes nothing.
+ */
+export async function seedDemo(database: Db): Promise<{ projectId: number; created: boolean }> {
+	const ids = await ensureDemoUsers(database);
+	const existing = database
+		.select({ id: projects.id })
+		.from(projects)
+		.innerJoin(memberships, eq(memberships.projectId, projects.id))
+		.where(eq(projects.name, DEMO_PROJECT_NAME))
+		.all()
+		.find(() => true);
+	if (existing) return { projectId: existing.id, created: false };
+
+	const projectId = database.transaction((tx) => {
+		const project = tx
+			.insert(projects)
+			.values({
+				name: DEMO_PROJECT_NAME,
+				venue: 'Moored ferry, north quay (invented)',
+				startsOn: '2027-03-08',
+				endsOn: '2027-03-19',
+				notes: 'Night exteriors on the river. Battery units on deck; mains only from the quay distro.',
+				artnetOffset: 1
+			})
+			.returning()
+			.get();
+		for (const u of DEMO_USERS) {
+			tx.insert(memberships).values({ projectId: project.id, userId: ids.get(u.email)!, role: u.role }).run();
+		}
+
+		const modeIds = new Map<string, { typeId: number; modeId: number }>();
+		for (const t of TYPES) {
+			const type = tx
+				.insert(fixtureTypes)
+				.values({ projectId: project.id, maker: t.maker, model: t.model, notes: t.notes })
+				.returning()
+				.get();
+			t.modes.forEach((m, mi) => {
+				const mode = tx.insert(modes).values({ typeId: type.id, name: m.name, position: mi }).returning().get();
+				m.channels.forEach((c, ci) => {
+					tx.insert(modeChannels)
+						.values({
+							modeId: mode.id,
+							position: ci,
+							offset: c.offset,
+							parameter: c.parameter,
+							bits: c.bits ?? 8,
+							defaultValue: c.default ?? 0,
+							min: c.min ?? null,
+							max: c.max ?? null,
+							unit: c.unit ?? null
+						})
+						.run();
+				});
+				modeIds.set(`${t.model}/${m.name}`, { typeId: type.id, modeId: mode.id });
+			});
+		}
+
+		const uni = (number: number, name: string, transport: (typeof universes.$inferInsert)['transport'], notes = '') =>
+			tx.insert(universes).values({ projectId: project.id, number, name, transport, notes }).returning().get().id;
+		const u1 = uni(1, 'Wheelhouse, wired', 'dmx-wired', 'Desk output A, 5-pin run along the rail');
+		const u2 = uni(2, 'Main deck', 'sacn', 'Node on the mast, port 1');
+		const u3 = uni(3, 'Stern & river bank', 'dmx-wireless', 'Wireless transmitter on the roof, receivers on each bank stand');
+		const u4 = uni(4, 'Quay', 'artnet', 'Node in the quay distro box');
+
+		const rx = tx
+			.insert(receivers)
+			.values({
+				projectId: project.id,
+				name: 'Tender boat rig',
+				protocol: 'sbus',
+				transmitterNotes: 'Handheld transmitter with the gaffer; model memory 3 "FERRY".'
+			})
+			.returning()
+			.get();
+		const labels: [number, string][] = [
+			[1, 'right stick up/down'],
+			[2, 'right stick left/right'],
+			[3, 'left stick up/down'],
+			[4, 'left stick left/right'],
+			[5, 'knob S1'],
+			[6, 'knob S2'],
+			[7, 'slider LS'],
+			[8, 'slider RS'],
+			[17, 'switch SA (on/off)']
+		];
+		for (const [channel, label] of labels) tx.insert(receiverLabels).values({ receiverId: rx.id, channel, label }).run();
+
+		let number = 100;
+		const add = (
+			key: string,
+			label: string,
+			control: Partial<typeof fixtures.$inferInsert>,
+			extra: Partial<typeof fixtures.$inferInsert> = {}
+		) => {
+			const { typeId, modeId } = modeIds.get(key)!;
+			number++;
+			return tx
+				.insert(fixtures)
+				.values({ projectId: project.id, number, label, typeId, modeId, ...control, ...extra })
+				.returning()
+				.get().id;
+		};
+		const dmx = (universeId: number, address: number) => ({ controlKind: 'dmx' as const, universeId, address });
+
+		// Universe 1: twelve 16-bit panels for the wheelhouse, then two balls
+		const states = ['checked', 'checked', 'addressed', 'addressed', 'hung', 'planned'] as const;
+		let leader = 0;
+		for (let i = 0; i < 12; i++) {
+			const id = add('Skiff Panel 60/HSIC 16-bit', `WHEEL ${i + 1}`, dmx(u1, 1 + i * 8), {
+				position: i < 6 ? 'Wheelhouse ceiling, port' : 'Wheelhouse ceiling, starboard',
+				groupName: 'Wheelhouse',
+				state: states[i % states.length],
+				watts: 90,
+				lookHue: 30,
+				lookSaturation: 20,
+				lookIntensity: 60
+			});
+			if (i === 0) leader = id;
+		}
+		add('Lantern Ball 40/Dimmer 16-bit', 'WHEEL BALL A', dmx(u1, 97), { position: 'Over chart table', groupName: 'Wheelhouse', watts: 60, lookCct: 3200, lookIntensity: 40 });
+		add('Lantern Ball 40/Dimmer 16-bit', 'WHEEL BALL B', dmx(u1, 99), { position: 'Over helm', groupName: 'Wheelhouse', watts: 60, lookCct: 3200, lookIntensity: 40 });
+		// a second panel slaved to WHEEL 1 over its own link cable
+		add('Skiff Panel 60/HSIC 16-bit', 'WHEEL 1 FOLLOW', { controlKind: 'follow', leaderId: leader }, { position: 'Wheelhouse ceiling, port', groupName: 'Wheelhouse', watts: 90 });
+
+		// Universe 2: ten tubes in the 11-slot mode, on round-ish addresses
+		for (let i = 0; i < 10; i++) {
+			add('Reed Tube 120/HSIC 16-bit + FX', `DECK TUBE ${i + 1}`, dmx(u2, 1 + i * 20), {
+				position: `Main deck rail ${i < 5 ? 'port' : 'starboard'} ${(i % 5) + 1}`,
+				groupName: 'Deck',
+				state: i < 4 ? 'hung' : 'planned',
+				watts: 45,
+				lookHue: 210,
+				lookSaturation: 70,
+				lookIntensity: 35
+			});
+		}
+		add('Deck Dimmer 4/4 channel', 'PRACTICALS', dmx(u2, 301), { position: 'Saloon', groupName: 'Practicals', watts: 2400, notes: 'Mains from quay distro; RCD-protected.' });
+
+		// Universe 3: six 8-bit panels, a three-tube link group, and a deliberate overlap
+		for (let i = 0; i < 6; i++) {
+			add('Skiff Panel 60/HSIC 8-bit', `STERN ${i + 1}`, dmx(u3, 1 + i * 4), { position: 'Stern rail', groupName: 'Stern', watts: 90, lookCct: 5600, lookIntensity: 70 });
+		}
+		for (let i = 0; i < 3; i++) {
+			add('Reed Tube 120/HSIC 8-bit', `BANK TUBE ${i + 1}`, dmx(u3, 41), {
+				position: `River bank stand ${i + 1}`,
+				groupName: 'Bank',
+				linkGroup: 'BANK-CHAIN',
+				watts: 45,
+				lookHue: 200,
+				lookSaturation: 90,
+				lookIntensity: 50
+			});
+		}
+		// starts on slot 23 while STERN 6 holds 21–24: the overlap the demo shows off
+		add('Skiff Panel 60/HSIC 8-bit', 'STERN SPARE', dmx(u3, 23), { position: 'Stern, on the deck', groupName: 'Stern', watts: 90, notes: 'Re-address before call: overlaps STERN 6.' });
+
+		// Universe 4: quay balls, and a puck with per-parameter addresses
+		for (let i = 0; i < 4; i++) {
+			add('Lantern Ball 40/CCT 8-bit', `QUAY BALL ${i + 1}`, dmx(u4, 1 + i * 2), { position: `Quay lamp post ${i + 1}`, groupName: 'Quay', watts: 60, lookCct: 2700, lookIntensity: 55 });
+		}
+		add('Puck 8/HSI 8-bit', 'QUAY PUCK', { controlKind: 'dmx-map', universeId: u4, addressMap: { intensity: 20, hue: 30, saturation: 31 } }, { position: 'Bollard 3', groupName: 'Quay', watts: 8 });
+
+		// Radio: pucks on the tender boat; two share channels as a link group
+		add('Puck 8/HSI 8-bit', 'TENDER BOW', { controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 1, hue: 2, saturation: 3 } }, { position: 'Tender bow', groupName: 'Tender', watts: 8 });
+		add('Puck 8/HSI 8-bit', 'TENDER STERN', { controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 4, hue: 5, saturation: 6 } }, { position: 'Tender stern', groupName: 'Tender', watts: 8 });
+		for (const side of ['PORT', 'STBD']) {
+			add('Puck 8/HSI 8-bit', `TENDER ${side}`, { controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 7, hue: 8, saturation: 9 } }, { position: `Tender gunwale ${side.toLowerCase()}`, groupName: 'Tender', linkGroup: 'TENDER-SIDES', watts: 8 });
+		}
+		add('Lantern Ball 40/CCT 8-bit', 'HAND LANTERN', { controlKind: 'manual' }, { position: 'Carried by cast', groupName: 'Props', watts: 20, notes: 'Set on the unit: 2700 K, 40 %.' });
+
+		return project.id;
+	});
+	return { projectId, created: true };
+}

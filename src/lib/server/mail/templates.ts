@@ -1,0 +1,66 @@
+import type { OutgoingMail } from './outbox';
+
+// Every mail has a plain-text part (read on a phone in a truck) and a simple
+// HTML part; links are absolute, built from PUBLIC_BASE_URL.
+
+export function escapeHtml(value: string): string {
+	return value
+		.replaceAll('&', '&amp;')
+		.replaceAll('<', '&lt;')
+		.replaceAll('>', '&gt;')
+		.replaceAll('"', '&quot;')
+		.replaceAll("'", '&#39;');
+}
+
+interface MailBody {
+	to: string;
+	subject: string;
+	lines: string[];
+	action?: { label: string; url: string };
+	footer?: string;
+}
+
+export function composeMail({ to, subject, lines, action, footer }: MailBody): OutgoingMail {
+	const text = [
+		...lines,
+		...(action ? ['', `${action.label}: ${action.url}`] : []),
+		'',
+		footer ?? 'Patchwright — patch planning for lighting crews'
+	].join('\n');
+	const html = `<!doctype html><html><body style="font-family:'IBM Plex Sans',system-ui,sans-serif;color:#1c2024;max-width:560px">
+${lines.map((l) => `<p>${escapeHtml(l)}</p>`).join('\n')}
+${action ? `<p><a href="${escapeHtml(action.url)}" style="display:inline-block;padding:10px 16px;background:#225ea8;color:#fafaf6;border-radius:6px;text-decoration:none">${escapeHtml(action.label)}</a></p><p style="font-size:12px;color:#60686e">${escapeHtml(action.url)}</p>` : ''}
+<p style="font-size:12px;color:#60686e">${escapeHtml(footer ?? 'Patchwright — patch planning for lighting crews')}</p>
+</body></html>`;
+	return { to, subject, text, html };
+}
+
+export function signInLinkMail(to: string, url: string): OutgoingMail {
+	return composeMail({
+		to,
+		subject: 'Your Patchwright sign-in link',
+		lines: [
+			'Use this link to sign in to Patchwright. It works once and expires in 24 hours.',
+			'If you did not ask for it, ignore this mail.'
+		],
+		action: { label: 'Sign in', url }
+	});
+}
+
+export function invitationMail(
+	to: string,
+	projectName: string,
+	role: string,
+	invitedBy: string,
+	url: string
+): OutgoingMail {
+	return composeMail({
+		to,
+		subject: `You are invited to ${projectName} on Patchwright`,
+		lines: [
+			`${invitedBy} invited you to the project "${projectName}" as ${role}.`,
+			'Open the link, sign in or create an account with this e-mail address, and the project appears in your list.'
+		],
+		action: { label: 'Join the project', url }
+	});
+}
