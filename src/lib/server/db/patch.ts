@@ -1,0 +1,306 @@
+import { asc, eq, inArray } from 'drizzle-orm';
+import {
+	computePatch,
+	defaultChannelCount,
+	modeSlotCount,
+	type Conflict,
+	type FixtureControl,
+	type Mode,
+	type PatchResult,
+	type SlotRange
+} from '../../patch/index';
+import { db } from './index';
+import { getProject, projectShape, type Project } from './projects';
+import {
+	fixtureTypes,
+	fixtures,
+	modeChannels,
+	modes,
+	receiverLabels,
+	receivers,
+	universes
+} from './schema';
+
+// The one place rows become the API's shapes (DESIGN.md "Shapes"). The JSON
+// API, the printed sheets, revisions and exports all read the patch here.
+
+export type FixtureRow = typeof fixtures.$inferSelect;
+export type UniverseRow = typeof universes.$inferSelect;
+export type ReceiverRow = typeof receivers.$inferSelect;
+
+export interface ChannelShape {
+	offset: number | null;
+	parameter: string;
+	bits: 8 | 16 | 24;
+	default: number;
+	min?: number;
+	max?: number;
+	unit?: string;
+}
+export interface ModeShape {
+	id: number;
+	name: string;
+	slots: number;
+	channels: ChannelShape[];
+}
+export interface TypeShape {
+	id: number;
+	maker: string;
+	model: string;
+	notes: string;
+	version: number;
+	modes: ModeShape[];
+}
+export interface FixtureShape {
+	id: number;
+	number: number;
+	label: string;
+	typeId: number;
+	modeId: number;
+	position: string;
+	group: string;
+	linkGroup: string | null;
+	colour: string;
+	watts: number | null;
+	notes: string;
+	state: FixtureRow['state'];
+	version: number;
+	look: { hue: number | null; saturation: number | null; intensity: number | null; cct: number | null };
+	control: FixtureControl;
+}
+export interface UniverseShape {
+	id: number;
+	number: number;
+	name: string;
+	transport: UniverseRow['transport'];
+	notes: string;
+	version: number;
+}
+export interface ReceiverShape {
+	id: number;
+	name: string;
+	protocol: ReceiverRow['protocol'];
+	channelCount: number;
+	transmitterNotes: string;
+	labels: Record<string, string>;
+	version: number;
+}
+
+export function controlOf(f: FixtureRow): FixtureControl {
+	switch (f.controlKind) {
+		case 'dmx':
+			return { kind: 'dmx', universeId: f.universeId, address: f.address ?? 0 };
+		case 'dmx-map':
+			return { kind: 'dmx-map', universeId: f.universeId, addresses: f.addressMap ?? {} };
+		case 'rc':
+			return { kind: 'rc', receiverId: f.receiverId, channels: f.rcChannels ?? {} };
+		case 'follow':
+			return { kind: 'follow', leaderId: f.leaderId ?? 0 };
+		default:
+			return { kind: 'manual' };
+	}
+}
+
+/** The control columns a control object sets; every other control column is cleared. */
+export function controlColumns(control: FixtureControl) {
+	const cleared = {
+		universeId: null as number | null,
+		address: null as number | null,
+		addressMap: null as Record<string, number> | null,
+		receiverId: null as number | null,
+		rcChannels: null as Record<string, number> | null,
+		leaderId: null as number | null
+	};
+	switch (control.kind) {
+		case 'dmx':
+			return { ...cleared, controlKind: 'dmx' as const, universeId: control.universeId, address: control.address };
+		case 'dmx-map':
+			return { ...cleared, controlKind: 'dmx-map' as const, universeId: control.universeId, addressMap: { ...control.addresses } };
+		case 'rc':
+			return { ...cleared, controlKind: 'rc' as const, receiverId: control.receiverId, rcChannels: { ...control.channels } };
+		case 'follow':
+			return { ...cleared, controlKind: 'follow' as const, leaderId: control.leaderId };
+		default:
+			return { ...cleared, controlKind: 'manual' as const };
+	}
+}
+
+export function fixtureShape(f: FixtureRow): FixtureShape {
+	return {
+		id: f.id,
+		number: f.number,
+		label: f.label,
+		typeId: f.typeId,
+		modeId: f.modeId,
+		position: f.position,
+		group: f.groupName,
+		linkGroup: f.linkGroup,
+		colour: f.colour,
+		watts: f.watts,
+		notes: f.notes,
+		state: f.state,
+		version: f.version,
+		look: { hue: f.lookHue, saturation: f.lookSaturation, intensity: f.lookIntensity, cct: f.lookCct },
+		control: controlOf(f)
+	};
+}
+
+export function universeShape(u: UniverseRow): UniverseShape {
+	return { id: u.id, number: u.number, name: u.name, transport: u.transport, notes: u.notes, version: u.version };
+}
+
+export function receiverShape(r: ReceiverRow, labels: Record<string, string> = {}): ReceiverShape {
+	return {
+		id: r.id,
+		name: r.name,
+		protocol: r.protocol,
+		channelCount: defaultChannelCount(r.protocol),
+		transmitterNotes: r.transmitterNotes,
+		labels,
+		version: r.version
+	};
+}
+
+/** Types with their modes and channels, in three queries rather than one per mode. */
+export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
+	const typeRows = db()
+		.select()
+		.from(fixtureTypes)
+		.where(eq(fixtureTypes.projectId, projectId))
+		.orderBy(asc(fixtureTypes.maker), asc(fixtureTypes.model), asc(fixtureTypes.id))
+		.all()
+		.filter((t) => !typeIds || typeIds.includes(t.id));
+	if (typeRows.length === 0) return [];
+	const modeRows = db()
+		.select()
+		.from(modes)
+		.where(inArray(modes.typeId, typeRows.map((t) => t.id)))
+		.orderBy(asc(modes.position), asc(modes.id))
+		.all();
+	const channelRows = modeRows.length
+		? db()
+				.select()
+				.from(modeChannels)
+				.where(inArray(modeChannels.modeId, modeRows.map((m) => m.id)))
+				.orderBy(asc(modeChannels.position), asc(modeChannels.id))
+				.all()
+		: [];
+	const channelsByMode = new Map<number, ChannelShape[]>();
+	for (const c of channelRows) {
+		const list = channelsByMode.get(c.modeId) ?? [];
+		list.push({
+			offset: c.offset,
+			parameter: c.parameter,
+			bits: c.bits,
+			default: c.defaultValue,
+			...(c.min != null ? { min: c.min } : {}),
+			...(c.max != null ? { max: c.max } : {}),
+			...(c.unit != null ? { unit: c.unit } : {})
+		});
+		channelsByMode.set(c.modeId, list);
+	}
+	const modesByType = new Map<number, ModeShape[]>();
+	for (const m of modeRows) {
+		const channels = channelsByMode.get(m.id) ?? [];
+		const list = modesByType.get(m.typeId) ?? [];
+		list.push({ id: m.id, name: m.name, slots: modeSlotCount({ id: m.id, name: m.name, channels }), channels });
+		modesByType.set(m.typeId, list);
+	}
+	return typeRows.map((t) => ({
+		id: t.id,
+		maker: t.maker,
+		model: t.model,
+		notes: t.notes,
+		version: t.version,
+		modes: modesByType.get(t.id) ?? []
+	}));
+}
+
+export function listUniverses(projectId: number): UniverseShape[] {
+	return db()
+		.select()
+		.from(universes)
+		.where(eq(universes.projectId, projectId))
+		.orderBy(asc(universes.number))
+		.all()
+		.map(universeShape);
+}
+
+export function listReceivers(projectId: number): ReceiverShape[] {
+	const rows = db().select().from(receivers).where(eq(receivers.projectId, projectId)).orderBy(asc(receivers.name), asc(receivers.id)).all();
+	if (rows.length === 0) return [];
+	const labels = db()
+		.select()
+		.from(receiverLabels)
+		.where(inArray(receiverLabels.receiverId, rows.map((r) => r.id)))
+		.all();
+	const byReceiver = new Map<number, Record<string, string>>();
+	for (const l of labels) {
+		const map = byReceiver.get(l.receiverId) ?? {};
+		map[String(l.channel)] = l.label;
+		byReceiver.set(l.receiverId, map);
+	}
+	return rows.map((r) => receiverShape(r, byReceiver.get(r.id) ?? {}));
+}
+
+export function listFixtures(projectId: number): FixtureShape[] {
+	return db()
+		.select()
+		.from(fixtures)
+		.where(eq(fixtures.projectId, projectId))
+		.orderBy(asc(fixtures.number))
+		.all()
+		.map(fixtureShape);
+}
+
+export interface PatchData {
+	project: Project;
+	universes: (UniverseShape & PatchResult['universes'][number])[];
+	types: TypeShape[];
+	receivers: ReceiverShape[];
+	fixtures: (FixtureShape & { slots: SlotRange[]; footprint: number | null })[];
+	conflicts: Conflict[];
+}
+
+/** Everything the patch consists of, plus what the engine computes from it. */
+export function loadPatch(projectId: number): PatchData {
+	const project = getProject(projectId);
+	if (!project) throw new Error(`project ${projectId} not found`);
+	const types = listTypes(projectId);
+	const universeRows = listUniverses(projectId);
+	const receiverRows = listReceivers(projectId);
+	const fixtureRows = listFixtures(projectId);
+	return computeFor(projectShape(project), types, universeRows, receiverRows, fixtureRows);
+}
+
+/** Runs the engine over already-loaded shapes (a live patch or a revision snapshot). */
+export function computeFor(
+	project: Project,
+	types: TypeShape[],
+	universeRows: UniverseShape[],
+	receiverRows: ReceiverShape[],
+	fixtureRows: FixtureShape[]
+): PatchData {
+	const modeMap = new Map<number, Mode>();
+	for (const t of types) for (const m of t.modes) modeMap.set(m.id, m);
+	const result = computePatch({
+		universes: universeRows,
+		modes: modeMap,
+		fixtures: fixtureRows,
+		receivers: receiverRows,
+		artnetOffset: project.artnetOffset === 0 ? 0 : 1
+	});
+	const footprintById = new Map(result.fixtures.map((f) => [f.fixtureId, f]));
+	const summaryById = new Map(result.universes.map((u) => [u.universeId, u]));
+	return {
+		project,
+		universes: universeRows.map((u) => ({ ...u, ...summaryById.get(u.id)! })),
+		types,
+		receivers: receiverRows,
+		fixtures: fixtureRows.map((f) => {
+			const fp = footprintById.get(f.id);
+			return { ...f, slots: fp?.ranges ?? [], footprint: fp?.footprint ?? null };
+		}),
+		conflicts: result.conflicts
+	};
+}
