@@ -83,8 +83,6 @@ function sortedByNumber(fixtures: readonly PatchFixture[]): readonly PatchFixtur
 	return fixtures;
 }
 
-const NO_RANGES: SlotRange[] = [];
-
 /**
  * Footprints, slot claims and every conflict of a patch, computed in one pass. `footprints: false`
  * skips the per-fixture list when only conflicts are wanted (it is most of the allocation).
@@ -116,7 +114,7 @@ export function analysePatch(input: PatchInput, { footprints: wantFootprints = t
 		const c = f.control;
 		const mode = compiled.get(f.modeId);
 		const entry: FixtureFootprint | undefined = wantFootprints
-			? { fixtureId: f.id, footprint: mode === undefined ? null : mode.slotCount, universeId: c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null, ranges: NO_RANGES }
+			? { fixtureId: f.id, footprint: mode === undefined ? null : mode.slotCount, universeId: c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null, ranges: [] }
 			: undefined;
 		if (entry !== undefined) footprints.push(entry);
 		if (c.kind !== 'dmx' && c.kind !== 'dmx-map') {
