@@ -75,7 +75,7 @@ describe('sign-in throttling', () => {
 		const right = await client.form('/auth/callback/credentials', { email: user.email!, password: PASSWORD, callbackUrl: '/' });
 		expect(right.headers.get('location')).toContain('error=CredentialsSignin');
 		expect(await client.session()).toBeNull();
-	});
+	}, 120_000); // ten argon2 verifications are slow on a loaded two-core machine
 
 	it('one address trying many accounts is slowed down too (30 a minute)', async () => {
 		const client = server.anonymous();
