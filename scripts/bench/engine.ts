@@ -8,7 +8,7 @@ import {
 	type PatchFixture,
 	type Universe
 } from '../../src/lib/patch';
-import { bench, seeded, type BenchLine, type BenchModule } from './harness';
+import { bench, benchAgainst, seeded, type BenchLine, type BenchModule } from './harness';
 
 const ch = (offset: number | null, parameter: string, bits: 8 | 16 = 8): ModeChannel => ({ offset, parameter, bits, default: 0 });
 
@@ -94,9 +94,12 @@ async function conflicts20k(): Promise<BenchLine> {
 	if (!found.some((c) => c.kind === 'overlap') || !found.some((c) => c.kind === 'linked')) {
 		throw new Error('bench patch should contain overlaps and link groups');
 	}
-	const sortBaseline = await bench('sort-baseline', () => patch.ranges.slice().sort((a, b) => a.universe - b.universe || a.start - b.start), { runs: 21, warmup: 10 });
-	const sweep = await bench('conflicts-20k', () => findConflicts(patch), { runs: 21, warmup: 10 });
-	return { name: 'conflicts-20k', value: sweep.median, unit: 'ms', ratio: sweep.median / sortBaseline.median };
+	const r = await benchAgainst(
+		() => findConflicts(patch),
+		() => patch.ranges.slice().sort((a, b) => a.universe - b.universe || a.start - b.start),
+		{ runs: 21, warmup: 10 }
+	);
+	return { name: 'conflicts-20k', value: r.subject, unit: 'ms', ratio: r.ratio };
 }
 
 async function autopatch10k(): Promise<BenchLine> {

@@ -47,6 +47,34 @@ export async function bench(name: string, fn: () => unknown, { runs = 15, warmup
 	return { name, median: median(samples), samples };
 }
 
+/**
+ * Time a subject against its baseline, alternating them run by run, so a busy
+ * machine slows both alike and the ratio stays meaningful.
+ */
+export async function benchAgainst(
+	subject: () => unknown,
+	baseline: () => unknown,
+	{ runs = 21, warmup = 10 }: BenchOptions = {}
+): Promise<{ subject: number; baseline: number; ratio: number }> {
+	for (let i = 0; i < warmup; i++) {
+		await baseline();
+		await subject();
+	}
+	const a: number[] = [];
+	const b: number[] = [];
+	for (let i = 0; i < runs; i++) {
+		let t = performance.now();
+		await baseline();
+		b.push(performance.now() - t);
+		t = performance.now();
+		await subject();
+		a.push(performance.now() - t);
+	}
+	const subjectMedian = median(a);
+	const baselineMedian = median(b);
+	return { subject: subjectMedian, baseline: baselineMedian, ratio: subjectMedian / baselineMedian };
+}
+
 export function formatLine(line: BenchLine): string {
 	return `BENCH ${line.name} ${line.value.toFixed(2)} ${line.unit} ratio=${line.ratio.toFixed(2)}`;
 }
