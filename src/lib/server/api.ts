@@ -36,7 +36,8 @@ export function apiError(
 			error: { code: code ?? CODE_FOR_STATUS[status] ?? 'error', message, ...(issues ? { issues } : {}) },
 			...rest
 		},
-		{ status }
+		// a refused body may be left unread; closing stops the client reusing a connection still carrying it
+		{ status, headers: status === 413 ? { connection: 'close' } : {} }
 	);
 }
 
