@@ -69,7 +69,8 @@ describe('review links', () => {
 		expect(body.patch.summary.errors).toBeGreaterThan(0);
 		expect(body.diff).toBeNull();
 		// the project API stays closed to a token holder, however the token is presented
-		for (const headers of [{ authorization: `Bearer ${token}` }, { cookie: `authjs.session-token=${token}` }]) {
+		const presented: Record<string, string>[] = [{ authorization: `Bearer ${token}` }, { cookie: `authjs.session-token=${token}` }];
+		for (const headers of presented) {
 			for (const path of [`/api/projects/${pid}/revisions/2`, `/api/projects/${pid}/patch`, `/api/projects`]) {
 				expect((await anon.fetch(path, { headers })).status).toBe(401);
 			}
