@@ -20,7 +20,7 @@ const FLAGS = [
 export interface Browser {
 	browser: PlaywrightBrowser;
 	/** A page in a context of its own: no cookies shared with other pages. */
-	page(viewport?: { width: number; height: number }): Promise<Page>;
+	page(viewport?: { width: number; height: number }, options?: { mobile?: boolean }): Promise<Page>;
 	close(): Promise<void>;
 }
 
@@ -34,8 +34,8 @@ export async function launchBrowser(): Promise<Browser> {
 	const browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS });
 	return {
 		browser,
-		async page(viewport = { width: 1280, height: 800 }) {
-			const context = await browser.newContext({ viewport });
+		async page(viewport = { width: 1280, height: 800 }, { mobile = false } = {}) {
+			const context = await browser.newContext({ viewport, isMobile: mobile, hasTouch: mobile });
 			const page = await context.newPage();
 			page.once('close', () => void context.close());
 			return page;

@@ -1,30 +1,26 @@
-import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoProjectId } from '../helpers/revisions';
 import { startServer, type TestServer } from '../helpers/server';
-import { launchBrowser, SCREENSHOTS, signInPage, type Browser } from './browser';
+import { launchBrowser, screenshot, signInPage, type Browser } from './launch';
 
 // The sign-off story from DESIGN.md "The job": the producer approves by opening a link on a phone.
 
 let server: TestServer;
-let desk: Browser;
-let phone: Browser;
+let browser: Browser;
 
 beforeAll(async () => {
 	server = await startServer({ demo: true });
-	desk = await launchBrowser();
-	phone = await launchBrowser({ viewport: { width: 390, height: 844 }, isMobile: true });
+	browser = await launchBrowser();
 });
 afterAll(async () => {
-	await desk?.close();
-	await phone?.close();
+	await browser?.close();
 	await server?.stop();
 });
 
 describe('revision, review link and sign-off in the browser', () => {
 	it('a programmer makes a revision and a link, the producer approves on a phone without an account, the programmer sees it', async () => {
 		const pid = demoProjectId(server.db());
-		const page = await desk.context.newPage();
+		const page = await browser.page();
 		await signInPage(page, server.url, 'programmer@demo.test');
 		await page.goto(`${server.url}/projects/${pid}/revisions`);
 		await page.fill('#note', 'For the producer');
@@ -38,9 +34,10 @@ describe('revision, review link and sign-off in the browser', () => {
 		await urlBox.waitFor();
 		const reviewUrl = await urlBox.inputValue();
 		expect(reviewUrl).toMatch(new RegExp(`^${server.url}/review/[A-Za-z0-9_-]{43}$`));
-		await page.screenshot({ path: join(SCREENSHOTS, 'review-link-made.png'), fullPage: true });
+		await screenshot(page, 'review-link-made');
 
-		const mobile = await phone.context.newPage();
+		// a context of its own: the producer has no session
+		const mobile = await browser.page({ width: 390, height: 844 }, { mobile: true });
 		await mobile.goto(reviewUrl);
 		expect(await mobile.locator('h1').textContent()).toBe('The Lantern Ferry — river unit');
 		expect(await mobile.locator('[data-testid="review-revision"] h2').textContent()).toBe('Revision 1');
@@ -66,14 +63,14 @@ describe('revision, review link and sign-off in the browser', () => {
 		await mobile.click('button:has-text("Send sign-off")');
 		await mobile.locator('[data-testid="signed"]').waitFor();
 		expect(await mobile.locator('[data-testid="review-revision"]').textContent()).toContain('by Pat Producer');
-		await mobile.screenshot({ path: join(SCREENSHOTS, 'review-approved-phone.png'), fullPage: true });
+		await screenshot(mobile, 'review-approved-phone');
 
 		await page.goto(`${server.url}/projects/${pid}/revisions`);
 		const signoffs = await page.locator('[data-testid="revision-1"] [data-testid="signoffs"]').textContent();
 		expect(signoffs).toContain('Approved');
 		expect(signoffs).toContain('Pat Producer');
 		expect(signoffs).toContain('Looks right for night one');
-		await page.screenshot({ path: join(SCREENSHOTS, 'revisions-approved.png'), fullPage: true });
+		await screenshot(page, 'revisions-approved');
 
 		await page.goto(`${server.url}/projects/${pid}`);
 		const badge = page.locator('[data-testid="signoff-badge"]');
