@@ -1,7 +1,8 @@
-import { execFileSync } from 'node:child_process';
+import { execFile } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { promisify } from 'node:util';
 import jsQR from 'jsqr';
 import { PNG } from 'pngjs';
 
@@ -40,13 +41,17 @@ export async function pdfInfo(data: Uint8Array): Promise<Record<string, unknown>
 	return meta.info as Record<string, unknown>;
 }
 
-/** One page as a PNG at `dpi`, rendered by pdftoppm. */
-export function renderPage(data: Uint8Array, page: number, dpi: number): PNG {
+/**
+ * One page as a PNG at `dpi`, rendered by pdftoppm. Asynchronous on purpose: a
+ * blocked event loop misses the server closing idle keep-alive sockets, and the
+ * next request then fails on a dead one.
+ */
+export async function renderPage(data: Uint8Array, page: number, dpi: number): Promise<PNG> {
 	const dir = mkdtempSync(join(tmpdir(), 'patchwright-pdf-'));
 	try {
 		const file = join(dir, 'in.pdf');
 		writeFileSync(file, data);
-		execFileSync('pdftoppm', ['-r', String(dpi), '-png', '-f', String(page), '-l', String(page), '-singlefile', file, join(dir, 'out')]);
+		await promisify(execFile)('pdftoppm', ['-r', String(dpi), '-png', '-f', String(page), '-l', String(page), '-singlefile', file, join(dir, 'out')]);
 		return PNG.sync.read(readFileSync(join(dir, 'out.png')));
 	} finally {
 		rmSync(dir, { recursive: true, force: true });
