@@ -391,12 +391,14 @@ export class Table {
 		this.columns.forEach((c, i) => {
 			const indent = c.key === this.indentKey ? (row.indent ?? 0) : 0;
 			const text = row.cells[c.key] ?? '';
+			const width = this.widths[i] - 2 * this.style.padding - indent;
 			if (text !== '') {
+				// one-line cells skip pdfkit's line wrapper: most cells, most of the time
+				const oneLine = !text.includes('\n') && doc.widthOfString(text) <= width;
 				doc.text(text, x + this.style.padding + indent, y + this.style.padding, {
-					width: this.widths[i] - 2 * this.style.padding - indent,
-					height: h - 2 * this.style.padding,
+					width,
 					align: c.align ?? 'left',
-					ellipsis: true
+					...(oneLine ? { lineBreak: false } : { height: h - 2 * this.style.padding, ellipsis: true })
 				});
 			}
 			x += this.widths[i];
