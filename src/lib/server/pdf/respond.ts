@@ -1,0 +1,84 @@
+import type { RequestEvent } from '@sveltejs/kit';
+import { ApiError } from '../api';
+import { requireRole } from '../authz';
+import { publicBaseUrl } from '../config';
+import { PAPERS, slugify, type Paper, type TitleInfo } from './common';
+import { loadSheetData, type SheetData } from './data';
+import { renderLabelSheet } from './label-sheet';
+import { renderPatchSheet } from './patch-sheet';
+import { renderRadioSheet } from './radio-sheet';
+
+// GET …/sheets/{patch,labels,radio}.pdf. Any member may print any sheet: every
+// role may read the whole patch (DESIGN "Roles"), and a sheet shows nothing more.
+
+export type SheetKind = 'patch' | 'labels' | 'radio';
+
+const SHEET_TITLE: Record<SheetKind, string> = { patch: 'Patch sheet', labels: 'Labels', radio: 'Radio sheet' };
+
+function positiveInt(value: string, what: string): number {
+	if (!/^\d{1,9}$/.test(value) || Number(value) < 1) throw new ApiError(400, `${what} must be a whole number of 1 or more, not "${value}".`);
+	return Number(value);
+}
+
+export interface SheetQuery {
+	revision?: number;
+	paper: Paper;
+	fixtures?: number[];
+}
+
+export function parseSheetQuery(params: URLSearchParams, kind: SheetKind): SheetQuery {
+	const revision = params.get('revision');
+	const paper = (params.get('paper') ?? 'a4').toLowerCase();
+	if (!PAPERS.includes(paper as Paper)) throw new ApiError(400, `paper must be a4 or letter, not "${paper}".`);
+	const fixtures = params.get('fixtures');
+	if (fixtures !== null && kind !== 'labels') throw new ApiError(400, 'fixtures= chooses labels; the other sheets print the whole patch.');
+	return {
+		paper: paper as Paper,
+		...(revision !== null ? { revision: positiveInt(revision, 'revision') } : {}),
+		...(fixtures !== null
+			? { fixtures: [...new Set(fixtures.split(',').filter((s) => s.trim() !== '').map((s) => positiveInt(s.trim(), 'Each fixture number')))] }
+			: {})
+	};
+}
+
+export function sheetTitle(kind: SheetKind, data: SheetData): TitleInfo {
+	return {
+		sheet: SHEET_TITLE[kind],
+		project: data.patch.project.name,
+		revision: data.revision ? `Revision ${data.revision.number}` : 'Draft — current patch, not a revision',
+		printed: data.printedAt,
+		signoff: data.signoff.text
+	};
+}
+
+export function sheetFileName(kind: SheetKind, projectName: string, revision: number | null): string {
+	return `${slugify(projectName)}-${kind}-${revision === null ? 'draft' : `r${revision}`}.pdf`;
+}
+
+export async function sheetResponse(event: RequestEvent, kind: SheetKind): Promise<Response> {
+	const { projectId } = requireRole(event, event.params.pid, 'viewer');
+	const query = parseSheetQuery(event.url.searchParams, kind);
+	const data = loadSheetData(projectId, query.revision);
+	if (query.fixtures) {
+		const known = new Set(data.patch.fixtures.map((f) => f.number));
+		const unknown = query.fixtures.filter((n) => !known.has(n));
+		if (unknown.length) throw new ApiError(400, `No fixture numbered ${unknown.join(', ')} in this ${data.revision ? 'revision' : 'patch'}.`);
+		if (query.fixtures.length === 0) throw new ApiError(400, 'Choose at least one fixture number.');
+	}
+	const title = sheetTitle(kind, data);
+	const pdf =
+		kind === 'patch'
+			? await renderPatchSheet(data.patch, title, query.paper)
+			: kind === 'radio'
+				? await renderRadioSheet(data.patch, title, query.paper)
+				: await renderLabelSheet(data.patch, title, { paper: query.paper, baseUrl: publicBaseUrl(), projectId, numbers: query.fixtures });
+	const name = sheetFileName(kind, data.patch.project.name, data.revision?.number ?? null);
+	return new Response(new Uint8Array(pdf), {
+		headers: {
+			'content-type': 'application/pdf',
+			'content-disposition': `inline; filename="${name}"`,
+			'content-length': String(pdf.length),
+			'cache-control': 'private, no-store'
+		}
+	});
+}
