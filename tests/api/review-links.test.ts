@@ -189,3 +189,28 @@ describe('rate limits (PATCHWRIGHT_RATE_SCALE=1)', () => {
 		}
 	});
 });
+
+describe('sheets through a review link', () => {
+	it('print the link’s own revision and refuse other sheets and forged tokens', async () => {
+		const s = await startServer({ demo: true });
+		try {
+			const programmer = await s.signIn('programmer@demo.test');
+			const pid = (await (await programmer.get('/api/projects')).json()).projects[0].id;
+			expect((await programmer.post(`/api/projects/${pid}/revisions`, { note: 'first' })).status).toBe(201);
+			expect((await programmer.post(`/api/projects/${pid}/revisions`, { note: 'second' })).status).toBe(201);
+			const link = await (await programmer.post(`/api/projects/${pid}/review-links`, { revision: 1 })).json();
+			const path = new URL(link.url).pathname.replace('/review/', '/api/review/');
+			const anon = s.anonymous();
+			const pdf = await anon.get(`${path}/sheets/patch.pdf?revision=2`);
+			expect(pdf.status).toBe(200);
+			expect(pdf.headers.get('content-type')).toBe('application/pdf');
+			// the token's revision wins over the query: the file is revision 1's
+			expect(pdf.headers.get('content-disposition')).toContain('-patch-r1.pdf');
+			expect((await anon.get(`${path}/sheets/labels.pdf`)).status).toBe(200);
+			expect((await anon.get(`${path}/sheets/secrets.pdf`)).status).toBe(404);
+			expect((await anon.get(`/api/review/${'A'.repeat(43)}/sheets/patch.pdf`)).status).toBe(404);
+		} finally {
+			await s.stop();
+		}
+	});
+});

@@ -55,9 +55,14 @@ export function sheetFileName(kind: SheetKind, projectName: string, revision: nu
 	return `${slugify(projectName)}-${kind}-${revision === null ? 'draft' : `r${revision}`}.pdf`;
 }
 
+/** A member prints the live patch or any revision of their project. */
 export async function sheetResponse(event: RequestEvent, kind: SheetKind): Promise<Response> {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	const query = parseSheetQuery(event.url.searchParams, kind);
+	return renderSheet(projectId, kind, parseSheetQuery(event.url.searchParams, kind));
+}
+
+/** Renders one sheet after the caller's access to `query.revision` (or the live patch) is settled. */
+export async function renderSheet(projectId: number, kind: SheetKind, query: SheetQuery): Promise<Response> {
 	const data = loadSheetData(projectId, query.revision);
 	if (query.fixtures) {
 		const known = new Set(data.patch.fixtures.map((f) => f.number));
