@@ -1,0 +1,202 @@
+import { PNG } from 'pngjs';
+import { addMember, makeProject, makeUser } from '../helpers/factories';
+import type { Client } from '../helpers/server';
+import type { Db } from '../../src/lib/server/db/index';
+import type { Role } from '../../src/lib/server/db/schema';
+
+// THE authorization table (DESIGN.md "Roles"): one line per route × method with the
+// expected status for each caller, and a builder for a request that would be VALID for
+// a permitted caller, so the status says what authorization decided, not validation.
+// Adding a route = adding one line here; tests/api/authz.test.ts fails until you do.
+//
+// Callers, in column order:
+//   owner, programmer, electrician, viewer — members of the project under test
+//   outsider — signed in, owner of ANOTHER project, not a member of this one (→ 404, never reveal it exists)
+//   anonymous — no session
+//   review — no session, holding a valid review-link token of this project (Authorization: Bearer + cookie);
+//            outside /api/review/:token… it must count for nothing (anonymous-equivalent, 401)
+// Routes under /api/review/[token] are authorised by the token in the path, not by role: the
+// runner puts the valid token there for every caller.
+
+export const CALLERS = ['owner', 'programmer', 'electrician', 'viewer', 'outsider', 'anonymous', 'review'] as const;
+export type Caller = (typeof CALLERS)[number];
+export type Expect = [owner: number, programmer: number, electrician: number, viewer: number, outsider: number, anonymous: number, review: number];
+
+export interface Req {
+	/** route params beyond pid (pid is the project under test unless given) */
+	params?: Record<string, string | number>;
+	body?: unknown;
+	/** multipart upload instead of JSON */
+	form?: () => FormData;
+}
+
+export type FixtureKind = 'dmx' | 'dmx-map' | 'rc' | 'follow' | 'manual';
+
+/** What a builder can make in the project it runs against (through the API, as that project's owner). */
+export interface Ctx {
+	pid: number;
+	owner: Client;
+	db: Db;
+	seq(): number;
+	/** current version of the project row, for PATCH /api/projects/[pid] */
+	projectVersion(): number;
+	/** a new project with the same four crew members, for DELETE /api/projects/[pid] */
+	freshProject(): Promise<number>;
+	universe(): Promise<{ id: number }>;
+	type(): Promise<{ id: number; modeId: number }>;
+	receiver(): Promise<{ id: number }>;
+	/** a fresh fixture; without a kind, the next of the five in turn so every kind is exercised */
+	fixture(kind?: FixtureKind): Promise<{ id: number; kind: FixtureKind }>;
+	photo(fixtureId: number): Promise<{ id: number }>;
+	/** a new user who is a viewer of this project */
+	member(): Promise<{ userId: string }>;
+	base: { typeId: number; modeId: number; universeId: number; receiverId: number };
+}
+
+export interface Row {
+	method: 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
+	route: string;
+	expect: Expect;
+	build: (c: Ctx) => Promise<Req> | Req;
+}
+
+const row = (method: Row['method'], route: string, expect: Expect, build: Row['build'] = () => ({})): Row => ({ method, route, expect, build });
+
+const fixture = async (c: Ctx) => ({ params: { id: (await c.fixture()).id } });
+
+// prettier-ignore
+export const ROUTES: Row[] = [
+	//   method    route                                                  own  prog elec view out  anon review   valid request
+	row('GET',    '/api/health',                                        [200, 200, 200, 200, 200, 200, 200]),
+	row('GET',    '/dev/mail.json',                                     [200, 200, 200, 200, 200, 200, 200]), // dev sink only: gone when SMTP_URL is set or PATCHWRIGHT_ENV=production
+	row('GET',    '/api/projects',                                      [200, 200, 200, 200, 200, 401, 401]),
+	row('POST',   '/api/projects',                                      [201, 201, 201, 201, 201, 401, 401], () => ({ body: { name: 'Authz probe' } })),
+	row('GET',    '/api/projects/[pid]',                                [200, 200, 200, 200, 404, 401, 401]),
+	row('PATCH',  '/api/projects/[pid]',                                [200, 200, 403, 403, 404, 401, 401], (c) => ({ body: { notes: 'checked', version: c.projectVersion() } })),
+	row('DELETE', '/api/projects/[pid]',                                [204, 403, 403, 403, 404, 401, 401], async (c) => ({ params: { pid: await c.freshProject() } })),
+	row('GET',    '/api/projects/[pid]/patch',                          [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/conflicts',                      [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/members',                        [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/members',                        [201, 403, 403, 403, 404, 401, 401], (c) => ({ body: { email: `invitee-${c.seq()}@test.example`, role: 'viewer' } })),
+	row('PATCH',  '/api/projects/[pid]/members/[userId]',               [200, 403, 403, 403, 404, 401, 401], async (c) => ({ params: { userId: (await c.member()).userId }, body: { role: 'electrician' } })),
+	row('DELETE', '/api/projects/[pid]/members/[userId]',               [204, 403, 403, 403, 404, 401, 401], async (c) => ({ params: { userId: (await c.member()).userId } })),
+	row('GET',    '/api/projects/[pid]/universes',                      [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/universes',                      [201, 201, 403, 403, 404, 401, 401], (c) => ({ body: { number: 100 + c.seq(), name: 'Probe', transport: 'sacn' } })),
+	row('GET',    '/api/projects/[pid]/universes/[id]',                 [200, 200, 200, 200, 404, 401, 401], async (c) => ({ params: { id: (await c.universe()).id } })),
+	row('PATCH',  '/api/projects/[pid]/universes/[id]',                 [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.universe()).id }, body: { name: 'Renamed', version: 1 } })),
+	row('DELETE', '/api/projects/[pid]/universes/[id]',                 [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.universe()).id } })),
+	row('GET',    '/api/projects/[pid]/types',                          [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/types',                          [201, 201, 403, 403, 404, 401, 401], () => ({ body: TYPE_BODY })),
+	row('GET',    '/api/projects/[pid]/types/[id]',                     [200, 200, 200, 200, 404, 401, 401], async (c) => ({ params: { id: (await c.type()).id } })),
+	row('PATCH',  '/api/projects/[pid]/types/[id]',                     [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.type()).id }, body: { notes: 'checked', version: 1 } })),
+	row('DELETE', '/api/projects/[pid]/types/[id]',                     [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.type()).id } })),
+	row('GET',    '/api/projects/[pid]/fixtures',                       [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/fixtures',                       [201, 201, 403, 403, 404, 401, 401], (c) => ({ body: { number: 5000 + c.seq(), typeId: c.base.typeId, modeId: c.base.modeId } })),
+	row('PATCH',  '/api/projects/[pid]/fixtures',                       [200, 200, 200, 403, 404, 401, 401], async (c) => ({ body: { fixtures: [{ id: (await c.fixture()).id, state: 'hung', version: 1 }] } })),
+	row('GET',    '/api/projects/[pid]/fixtures/[id]',                  [200, 200, 200, 200, 404, 401, 401], fixture),
+	row('PATCH',  '/api/projects/[pid]/fixtures/[id]',                  [200, 200, 200, 403, 404, 401, 401], async (c) => ({ ...(await fixture(c)), body: { notes: 'seen on set', state: 'checked', version: 1 } })),
+	row('DELETE', '/api/projects/[pid]/fixtures/[id]',                  [204, 204, 403, 403, 404, 401, 401], fixture),
+	row('GET',    '/api/projects/[pid]/fixtures/[id]/photos',           [200, 200, 200, 200, 404, 401, 401], fixture),
+	row('POST',   '/api/projects/[pid]/fixtures/[id]/photos',           [201, 201, 201, 403, 404, 401, 401], async (c) => ({ ...(await fixture(c)), form: photoForm })),
+	row('GET',    '/api/projects/[pid]/fixtures/[id]/photos/[photoId]', [200, 200, 200, 200, 404, 401, 401], photo),
+	row('DELETE', '/api/projects/[pid]/fixtures/[id]/photos/[photoId]', [204, 204, 204, 403, 404, 401, 401], photo),
+	row('POST',   '/api/projects/[pid]/autopatch',                      [200, 200, 403, 403, 404, 401, 401], async (c) => ({ body: { fixtureIds: [(await c.fixture('manual')).id], universeId: c.base.universeId, start: 1 } })),
+	row('GET',    '/api/projects/[pid]/receivers',                      [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/receivers',                      [201, 201, 403, 403, 404, 401, 401], () => ({ body: { name: 'Probe receiver', protocol: 'crsf', labels: { 1: 'left stick' } } })),
+	row('GET',    '/api/projects/[pid]/receivers/[id]',                 [200, 200, 200, 200, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id } })),
+	row('PATCH',  '/api/projects/[pid]/receivers/[id]',                 [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id }, body: { name: 'Renamed', version: 1 } })),
+	row('DELETE', '/api/projects/[pid]/receivers/[id]',                 [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id } })),
+	row('POST',   '/api/projects/[pid]/receivers/[id]/assign',          [200, 200, 403, 403, 404, 401, 401], (c) => ({ params: { id: c.base.receiverId }, body: { apply: false } }))
+];
+
+// Page loads: the status of the HTML document for each caller (303 = sent elsewhere).
+// prettier-ignore
+export const PAGES: Row[] = [
+	//   method  page                                                     own  prog elec view out  anon review
+	row('GET',  '/',                                                    [200, 200, 200, 200, 200, 303, 303]),
+	row('GET',  '/signin',                                              [303, 303, 303, 303, 303, 200, 200]),
+	row('GET',  '/signin/check-email',                                  [200, 200, 200, 200, 200, 200, 200]),
+	row('GET',  '/signup',                                              [303, 303, 303, 303, 303, 200, 200]),
+	row('GET',  '/invite/[token]',                                      [200, 200, 200, 200, 200, 200, 200], () => ({ params: { token: 'not-a-real-invitation' } })),
+	row('GET',  '/dev/mail',                                            [200, 200, 200, 200, 200, 200, 200]),
+	row('GET',  '/projects/[id]',                                       [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',  '/projects/[id]/members',                               [200, 200, 200, 200, 404, 401, 401])
+];
+
+export const TYPE_BODY = {
+	maker: 'Testworks',
+	model: 'Probe Panel',
+	modes: [{ name: '2ch', channels: [{ offset: 1, parameter: 'intensity', bits: 8 }, { offset: 2, parameter: 'cct', bits: 8 }] }]
+};
+
+function photo(c: Ctx) {
+	return c.fixture().then(async (f) => ({ params: { id: f.id, photoId: (await c.photo(f.id)).id } }));
+}
+
+export function pngBytes(): Buffer {
+	const png = new PNG({ width: 1, height: 1 });
+	png.data.set([255, 128, 0, 255]);
+	return PNG.sync.write(png);
+}
+
+export function photoForm(): FormData {
+	const form = new FormData();
+	form.set('file', new Blob([new Uint8Array(pngBytes())], { type: 'image/png' }), 'probe.png');
+	return form;
+}
+
+/** Builds a Ctx for one project: `owner` is that project's owner client, `crew` the users to add to fresh projects. */
+export async function makeCtx(db: Db, pid: number, owner: Client, crew: Record<Role, { id: string }>): Promise<Ctx> {
+	let n = 0;
+	const seq = () => ++n;
+	const expectJson = async (res: Response, status: number) => {
+		const body = await res.json();
+		if (res.status !== status) throw new Error(`setup: ${res.url} answered ${res.status}: ${JSON.stringify(body)}`);
+		return body;
+	};
+	const post = async (path: string, body: unknown) => expectJson(await owner.post(`/api/projects/${pid}${path}`, body), 201);
+	const t = await post('/types', TYPE_BODY);
+	const u = await post('/universes', { number: 1, name: 'Deck', transport: 'dmx-wired' });
+	const r = await post('/receivers', { name: 'Crane', protocol: 'sbus' });
+	const leader = await post('/fixtures', { number: 1, typeId: t.id, modeId: t.modes[0].id, control: { kind: 'dmx', universeId: u.id, address: 1 } });
+	const base = { typeId: t.id, modeId: t.modes[0].id, universeId: u.id, receiverId: r.id };
+	const controls: Record<FixtureKind, () => unknown> = {
+		dmx: () => ({ kind: 'dmx', universeId: u.id, address: 1 + ((n * 2) % 500) }),
+		'dmx-map': () => ({ kind: 'dmx-map', universeId: u.id, addresses: { intensity: 10, cct: 300 } }),
+		rc: () => ({ kind: 'rc', receiverId: r.id, channels: { intensity: 1, cct: 2 } }),
+		follow: () => ({ kind: 'follow', leaderId: leader.id }),
+		manual: () => ({ kind: 'manual' })
+	};
+	const kinds = Object.keys(controls) as FixtureKind[];
+	let turn = 0;
+	return {
+		pid,
+		owner,
+		db,
+		seq,
+		base,
+		projectVersion: () => (db.$client.prepare('select version from project where id = ?').get(pid) as { version: number }).version,
+		async freshProject() {
+			const p = makeProject(db);
+			for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const) addMember(db, p.id, crew[role].id, role);
+			return p.id;
+		},
+		universe: () => post('/universes', { number: 1000 + seq() }),
+		type: () => post('/types', TYPE_BODY).then((x) => ({ id: x.id, modeId: x.modes[0].id })),
+		receiver: () => post('/receivers', { name: `R${seq()}` }),
+		async fixture(kind) {
+			const k = kind ?? kinds[turn++ % kinds.length];
+			const f = await post('/fixtures', { number: 100 + seq(), typeId: base.typeId, modeId: base.modeId, control: controls[k]() });
+			return { id: f.id, kind: k };
+		},
+		async photo(fixtureId) {
+			const res = await owner.fetch(`/api/projects/${pid}/fixtures/${fixtureId}/photos`, { method: 'POST', body: photoForm() });
+			return expectJson(res, 201);
+		},
+		async member() {
+			const user = await makeUser(db);
+			addMember(db, pid, user.id, 'viewer');
+			return { userId: user.id };
+		}
+	};
+}
