@@ -26,6 +26,8 @@ export interface Req {
 	/** route params beyond pid (pid is the project under test unless given) */
 	params?: Record<string, string | number>;
 	body?: unknown;
+	/** query string, without the "?" */
+	query?: string;
 	/** multipart upload instead of JSON */
 	form?: () => FormData;
 }
@@ -48,6 +50,8 @@ export interface Ctx {
 	/** a fresh fixture; without a kind, the next of the five in turn so every kind is exercised */
 	fixture(kind?: FixtureKind): Promise<{ id: number; kind: FixtureKind }>;
 	photo(fixtureId: number): Promise<{ id: number }>;
+	/** a review link of revision 1, made by the owner */
+	reviewLink(): Promise<{ id: number }>;
 	/** a new user who is a viewer of this project */
 	member(): Promise<{ userId: string }>;
 	base: { typeId: number; modeId: number; universeId: number; receiverId: number };
@@ -68,7 +72,7 @@ const fixture = async (c: Ctx) => ({ params: { id: (await c.fixture()).id } });
 export const ROUTES: Row[] = [
 	//   method    route                                                  own  prog elec view out  anon review   valid request
 	row('GET',    '/api/health',                                        [200, 200, 200, 200, 200, 200, 200]),
-	row('GET',    '/dev/mail.json',                                     [200, 200, 200, 200, 200, 200, 200]), // dev sink only: gone when SMTP_URL is set or PATCHWRIGHT_ENV=production
+	row('GET',    '/dev/mail.json',                                     [200, 200, 200, 200, 200, 200, 200]), // dev sink only, loopback callers only: gone when SMTP_URL is set or PATCHWRIGHT_ENV=production
 	row('GET',    '/api/projects',                                      [200, 200, 200, 200, 200, 401, 401]),
 	row('POST',   '/api/projects',                                      [201, 201, 201, 201, 201, 401, 401], () => ({ body: { name: 'Authz probe' } })),
 	row('GET',    '/api/projects/[pid]',                                [200, 200, 200, 200, 404, 401, 401]),
@@ -106,7 +110,22 @@ export const ROUTES: Row[] = [
 	row('GET',    '/api/projects/[pid]/receivers/[id]',                 [200, 200, 200, 200, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id } })),
 	row('PATCH',  '/api/projects/[pid]/receivers/[id]',                 [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id }, body: { name: 'Renamed', version: 1 } })),
 	row('DELETE', '/api/projects/[pid]/receivers/[id]',                 [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id } })),
-	row('POST',   '/api/projects/[pid]/receivers/[id]/assign',          [200, 200, 403, 403, 404, 401, 401], (c) => ({ params: { id: c.base.receiverId }, body: { apply: false } }))
+	row('POST',   '/api/projects/[pid]/receivers/[id]/assign',          [200, 200, 403, 403, 404, 401, 401], (c) => ({ params: { id: c.base.receiverId }, body: { apply: false } })),
+	row('GET',    '/api/projects/[pid]/revisions',                      [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/revisions',                      [201, 201, 403, 403, 404, 401, 401], () => ({ body: { note: 'authz probe' } })),
+	row('GET',    '/api/projects/[pid]/revisions/[n]',                  [200, 200, 200, 200, 404, 401, 401], () => ({ params: { n: 1 } })),
+	row('GET',    '/api/projects/[pid]/revisions/[n]/diff',             [200, 200, 200, 200, 404, 401, 401], () => ({ params: { n: 1 }, query: 'against=live' })),
+	row('POST',   '/api/projects/[pid]/revisions/[n]/signoffs',         [201, 201, 201, 201, 404, 401, 401], () => ({ params: { n: 1 }, body: { decision: 'approved', comment: 'probe' } })),
+	row('GET',    '/api/projects/[pid]/review-links',                   [200, 200, 403, 403, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/review-links',                   [201, 201, 403, 403, 404, 401, 401], () => ({ body: { revision: 1 } })),
+	row('DELETE', '/api/projects/[pid]/review-links/[id]',              [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.reviewLink()).id } })),
+	row('GET',    '/api/projects/[pid]/sheets/patch.pdf',               [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/sheets/labels.pdf',              [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/sheets/radio.pdf',               [200, 200, 200, 200, 404, 401, 401]),
+	// authorised by the token in the path, whoever holds it
+	row('GET',    '/api/review/[token]',                                [200, 200, 200, 200, 200, 200, 200]),
+	row('POST',   '/api/review/[token]/signoff',                        [201, 201, 201, 201, 201, 201, 201], () => ({ body: { name: 'Probe Producer', decision: 'approved', comment: '' } })),
+	row('GET',    '/api/review/[token]/sheets/[sheet]',                 [200, 200, 200, 200, 200, 200, 200], () => ({ params: { sheet: 'radio.pdf' } }))
 ];
 
 // Page loads: the status of the HTML document for each caller (303 = sent elsewhere).
@@ -120,7 +139,9 @@ export const PAGES: Row[] = [
 	row('GET',  '/invite/[token]',                                      [200, 200, 200, 200, 200, 200, 200], () => ({ params: { token: 'not-a-real-invitation' } })),
 	row('GET',  '/dev/mail',                                            [200, 200, 200, 200, 200, 200, 200]),
 	row('GET',  '/projects/[id]',                                       [200, 200, 200, 200, 404, 401, 401]),
-	row('GET',  '/projects/[id]/members',                               [200, 200, 200, 200, 404, 401, 401])
+	row('GET',  '/projects/[id]/members',                               [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',  '/projects/[id]/revisions',                             [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',  '/review/[token]',                                      [200, 200, 200, 200, 200, 200, 200])
 ];
 
 export const TYPE_BODY = {
@@ -193,6 +214,7 @@ export async function makeCtx(db: Db, pid: number, owner: Client, crew: Record<R
 			const res = await owner.fetch(`/api/projects/${pid}/fixtures/${fixtureId}/photos`, { method: 'POST', body: photoForm() });
 			return expectJson(res, 201);
 		},
+		reviewLink: () => post('/review-links', { revision: 1 }),
 		async member() {
 			const user = await makeUser(db);
 			addMember(db, pid, user.id, 'viewer');

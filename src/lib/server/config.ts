@@ -21,8 +21,16 @@ export function mailSinkDir(): string {
  * /dev/mail and friends exist only while mail goes to the local sink and the
  * deployment has not declared itself production.
  */
-export function devPagesEnabled(): boolean {
-	return !process.env.SMTP_URL && process.env.PATCHWRIGHT_ENV !== 'production';
+export function devPagesEnabled(clientAddress: string): boolean {
+	return !process.env.SMTP_URL && process.env.PATCHWRIGHT_ENV !== 'production' && isLoopback(clientAddress);
+}
+
+/**
+ * The caught mail holds sign-in links, so only this machine may read it, even
+ * when the server listens on a set network for the crew's phones.
+ */
+export function isLoopback(address: string): boolean {
+	return address === '::1' || address.startsWith('127.') || address.startsWith('::ffff:127.');
 }
 
 /** The address people reach the app on; used in e-mailed links and QR codes. */
