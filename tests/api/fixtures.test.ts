@@ -290,3 +290,21 @@ describe('conflicts the engine finds in what the API wrote', () => {
 		expect((await conflictsIn(v)).map((c) => [c.kind, c.severity])).toEqual([['shared', 'warning']]);
 	});
 });
+
+describe('the cached patch', () => {
+	it('follows every write: another connection’s insert, then an API delete, show at once', async () => {
+		const db = server.db();
+		const u = makeUniverse(db, pid, 70).id;
+		const a = await create({ control: dmx(1, u) });
+		const kinds = async () => ((await (await as.viewer.get(`${base()}/conflicts`)).json()).conflicts as { kind: string; universeId?: number }[]).filter((c) => c.universeId === u).map((c) => c.kind);
+		expect(await kinds()).toEqual([]);
+		// a 6-slot unit at 4 overlaps slots 4–6 of the one at 1 (written straight to the file, not through the server)
+		const b = makeFixture(db, { projectId: pid, number: 9070, typeId: type.type.id, modeId: type.modeIds.six, controlKind: 'dmx', universeId: u, address: 4 });
+		expect(await kinds()).toEqual(['overlap']);
+		expect((await as.programmer.delete(`${base()}/fixtures/${b.id}`)).status).toBe(204);
+		expect(await kinds()).toEqual([]);
+		expect((await as.programmer.patch(`${base()}/fixtures/${a.id}`, { version: 1, control: dmx(2, u) })).status).toBe(200);
+		const patch = await (await as.viewer.get(`${base()}/patch`)).json();
+		expect(patch.fixtures.find((f: { id: number }) => f.id === a.id).slots).toEqual([{ start: 2, end: 7 }]);
+	});
+});

@@ -12,7 +12,7 @@ import { ApiError, type ApiIssue } from '../api';
 import { recordAudit } from './audit';
 import { InUseError, StaleVersionError } from './errors';
 import { db } from './index';
-import { controlColumns, controlOf, fixtureShape, listTypes, loadPatch, type FixtureRow, type FixtureShape, type ModeShape } from './patch';
+import { controlColumns, controlOf, fixtureShape, listTypes, loadPatchCached, type FixtureRow, type FixtureShape, type ModeShape } from './patch';
 import { fixtures, receivers, universes, uploads } from './schema';
 import { detachFixture } from './universes';
 import type { AutopatchInput, FixtureCreate, FixturePatch } from '../../schemas/fixture';
@@ -296,7 +296,7 @@ export function deleteFixture(projectId: number, userId: string, id: number, det
  */
 export function autopatch(projectId: number, userId: string, input: AutopatchInput): AutoAddressResult & { applied: boolean } {
 	return db().transaction(() => {
-		const patch = loadPatch(projectId);
+		const patch = loadPatchCached(projectId);
 		const universe = patch.universes.find((u) => u.id === input.universeId);
 		if (!universe) throw new ApiError(400, 'No such universe in this project.', { issues: [{ path: ['universeId'], message: 'No such universe in this project.' }] });
 		const moving = new Set(input.fixtureIds);
