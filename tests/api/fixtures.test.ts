@@ -187,6 +187,20 @@ describe('changing fixtures', () => {
 		expect(mine.status).toBe(403);
 	});
 
+	it('bulk PATCH may swap two fixture numbers; a clash with a third is 409; bad items are 400 with their index', async () => {
+		const [a, b, c] = [await create(), await create(), await create()];
+		const swap = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 1, number: b.number }, { id: b.id, version: 1, number: a.number }] });
+		expect(swap.status).toBe(200);
+		expect([row(a.id).number, row(b.id).number]).toEqual([b.number, a.number]);
+		const clash = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 2, number: c.number }] });
+		expect(clash.status).toBe(409);
+		expect((await clash.json()).error.code).toBe('duplicate');
+		const bad = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 2, label: 'ok' }, { id: b.id, version: 2, control: dmx(600) }] });
+		expect(bad.status).toBe(400);
+		expect((await bad.json()).error.issues[0].path).toEqual(['fixtures', 1, 'control', 'address']);
+		expect(row(a.id).label).toBe('');
+	});
+
 	it('changing a patched fixture to a longer mode that would run past 512 is refused (400)', async () => {
 		const f = await create({ control: dmx(505) });
 		const res = await as.programmer.patch(`${base()}/fixtures/${f.id}`, { version: 1, modeId: type.modeIds.ten });
