@@ -1,8 +1,9 @@
 // Registry of bench modules; add yours here. A module that needs a built server should say so
 // from skip() instead of failing, so `tsx scripts/bench.ts engine` runs without one.
+import { api } from './api';
 import { engine } from './engine';
 import { load } from './load';
 import { pdf } from './pdf';
 import type { BenchModule } from './harness';
 
-export const modules: BenchModule[] = [engine, pdf, load];
+export const modules: BenchModule[] = [engine, api, pdf, load];

@@ -62,7 +62,7 @@ export const fixtureCreate = z.strictObject({
 	control: fields.control.default({ kind: 'manual' })
 });
 
-export const fixtureCreateBody = z.union([fixtureCreate, z.array(fixtureCreate).min(1).max(5000)]);
+export const fixtureCreateList = z.array(fixtureCreate).min(1, 'Send at least one fixture.').max(5000);
 
 const patchFields = {
 	number: fields.number.optional(),

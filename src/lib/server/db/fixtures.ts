@@ -12,7 +12,7 @@ import { ApiError, type ApiIssue } from '../api';
 import { recordAudit } from './audit';
 import { InUseError, StaleVersionError } from './errors';
 import { db } from './index';
-import { controlColumns, controlOf, fixtureShape, listTypes, loadPatch, type FixtureRow, type FixtureShape, type ModeShape } from './patch';
+import { controlColumns, controlOf, fixtureShape, listTypes, loadPatchCached, type FixtureRow, type FixtureShape, type ModeShape } from './patch';
 import { fixtures, receivers, universes, uploads } from './schema';
 import { detachFixture } from './universes';
 import type { AutopatchInput, FixtureCreate, FixturePatch } from '../../schemas/fixture';
@@ -191,7 +191,23 @@ export function requireFixture(projectId: number, id: number): FixtureShape {
 }
 
 /** One fixture or many, all-or-nothing. */
+/** Another process may take a number between our check and our write; the index has the last word. */
+function uniqueAsConflict<T>(write: () => T): T {
+	try {
+		return write();
+	} catch (err) {
+		if ((err as { code?: string }).code === 'SQLITE_CONSTRAINT_UNIQUE') {
+			throw new ApiError(409, 'A fixture number in this write is already taken; nothing was written.', { code: 'duplicate' });
+		}
+		throw err;
+	}
+}
+
 export function createFixtures(projectId: number, userId: string, inputs: FixtureCreate[]): FixtureShape[] {
+	return uniqueAsConflict(() => createFixturesTx(projectId, userId, inputs));
+}
+
+function createFixturesTx(projectId: number, userId: string, inputs: FixtureCreate[]): FixtureShape[] {
 	return db().transaction(() => {
 		const ctx = loadContext(projectId);
 		const many = inputs.length > 1;
@@ -247,6 +263,9 @@ function applyChanges(projectId: number, userId: string, changes: FixtureChange[
 		ctx,
 		merged.filter((m) => m.change.number !== undefined).map((m) => ({ number: m.next.number, id: m.before.id, path: many ? ['fixtures', changes.indexOf(m.change)] : [] }))
 	);
+	// numbers move aside first so a batch may swap them without tripping the unique index mid-way
+	const renumbered = merged.filter((m) => m.change.number !== undefined).map((m) => m.before.id);
+	if (renumbered.length > 0) db().update(fixtures).set({ number: sql`-${fixtures.id}` }).where(inArray(fixtures.id, renumbered)).run();
 	return merged.map(({ before, change, next }) => {
 		// check-and-write in one statement: of two writers holding the same version, exactly one changes the row
 		const row = db()
@@ -263,12 +282,12 @@ function applyChanges(projectId: number, userId: string, changes: FixtureChange[
 }
 
 export function updateFixture(projectId: number, userId: string, id: number, patch: FixturePatch): FixtureShape {
-	return db().transaction(() => applyChanges(projectId, userId, [{ ...patch, id }], false)[0]);
+	return uniqueAsConflict(() => db().transaction(() => applyChanges(projectId, userId, [{ ...patch, id }], false)[0]));
 }
 
 /** Many fixtures in one transaction: one stale version refuses the whole batch. */
 export function updateFixtures(projectId: number, userId: string, changes: FixtureChange[]): FixtureShape[] {
-	return db().transaction(() => applyChanges(projectId, userId, changes, true));
+	return uniqueAsConflict(() => db().transaction(() => applyChanges(projectId, userId, changes, true)));
 }
 
 /** Refuses while other fixtures follow this one, unless `detach` (they become manual). Returns the photo files to remove. */
@@ -296,7 +315,7 @@ export function deleteFixture(projectId: number, userId: string, id: number, det
  */
 export function autopatch(projectId: number, userId: string, input: AutopatchInput): AutoAddressResult & { applied: boolean } {
 	return db().transaction(() => {
-		const patch = loadPatch(projectId);
+		const patch = loadPatchCached(projectId);
 		const universe = patch.universes.find((u) => u.id === input.universeId);
 		if (!universe) throw new ApiError(400, 'No such universe in this project.', { issues: [{ path: ['universeId'], message: 'No such universe in this project.' }] });
 		const moving = new Set(input.fixtureIds);

@@ -304,3 +304,33 @@ export function computeFor(
 		conflicts: result.conflicts
 	};
 }
+
+// ── Cached reads ────────────────────────────────────────────────────────────
+// The computed patch is reused until anything is written. The key is cheap and never misses a
+// write: total_changes() counts every row this connection changed (the server's own writes,
+// rolled-back ones included, which only costs a recompute), and data_version moves whenever
+// another connection (a script, a test factory, a second process) commits.
+
+const patchCache = new Map<number, { key: string; data: PatchData }>();
+const MAX_CACHED_PROJECTS = 16;
+let counter: { client: unknown; stmt: { get(): unknown } } | undefined;
+
+function changeKey(): string {
+	const client = db().$client;
+	if (counter?.client !== client) counter = { client, stmt: client.prepare('select total_changes()').pluck() };
+	return `${String(client.pragma('data_version', { simple: true }))}:${String(counter.stmt.get())}`;
+}
+
+/** loadPatch, reused while nothing has been written. Treat the answer as read-only: it is shared. */
+export function loadPatchCached(projectId: number): PatchData {
+	// inside a transaction the rows may be uncommitted and may yet roll back: never cache those
+	if (db().$client.inTransaction) return patchCache.get(projectId)?.key === changeKey() ? patchCache.get(projectId)!.data : loadPatch(projectId);
+	const key = changeKey();
+	const hit = patchCache.get(projectId);
+	if (hit?.key === key) return hit.data;
+	const data = loadPatch(projectId);
+	patchCache.delete(projectId);
+	patchCache.set(projectId, { key, data });
+	if (patchCache.size > MAX_CACHED_PROJECTS) patchCache.delete(patchCache.keys().next().value!);
+	return data;
+}

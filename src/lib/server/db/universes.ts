@@ -3,7 +3,7 @@ import { ApiError } from '../api';
 import { recordAudit } from './audit';
 import { InUseError, StaleVersionError } from './errors';
 import { db } from './index';
-import { controlColumns, loadPatch, universeShape, type PatchData } from './patch';
+import { controlColumns, loadPatchCached, universeShape, type PatchData } from './patch';
 import { fixtures, universes } from './schema';
 import type { UniverseCreate, UniversePatch } from '../../schemas/universe';
 
@@ -11,7 +11,7 @@ export type UniverseWithNumbers = PatchData['universes'][number];
 
 /** Universes with their computed sACN/Art-Net numbers, slots used and refresh (DESIGN "universe"). */
 export function listUniversesComputed(projectId: number): UniverseWithNumbers[] {
-	return loadPatch(projectId).universes;
+	return loadPatchCached(projectId).universes;
 }
 
 export function getUniverseComputed(projectId: number, id: number): UniverseWithNumbers | undefined {

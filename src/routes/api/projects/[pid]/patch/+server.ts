@@ -1,12 +1,12 @@
 import { json } from '@sveltejs/kit';
 import { api } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
-import { loadPatch } from '$lib/server/db/patch';
+import { loadPatchCached } from '$lib/server/db/patch';
 import type { RequestHandler } from './$types';
 
 // The whole patch: universes with their numbers and refresh, types, receivers,
 // fixtures with computed slots, and every conflict.
 export const GET: RequestHandler = api((event) => {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	return json(loadPatch(projectId));
+	return json(loadPatchCached(projectId));
 });
