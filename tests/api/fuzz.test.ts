@@ -19,6 +19,7 @@ let server: TestServer;
 let ctx: Ctx;
 let owner: Client;
 let electrician: Client;
+let reviewToken: string;
 
 beforeAll(async () => {
 	server = await startServer();
@@ -26,6 +27,10 @@ beforeAll(async () => {
 	owner = await server.signIn(crew.owner.email, PASSWORD);
 	electrician = await server.signIn(crew.electrician.email, PASSWORD);
 	ctx = await makeCtx(server.db(), project.id, owner, crew);
+	// a revision and a live review link, so the token routes are fuzzed past the token check
+	await owner.post(`/api/projects/${project.id}/revisions`, { note: 'fuzz baseline' });
+	const link = (await (await owner.post(`/api/projects/${project.id}/review-links`, { revision: 1 })).json()) as { url: string };
+	reviewToken = new URL(link.url).pathname.split('/').pop()!;
 }, 60_000);
 afterAll(() => server?.stop());
 
@@ -147,7 +152,7 @@ describe('fuzzed bodies never crash the server and refusals write nothing', () =
 			runCounts[name] = RUNS;
 			return;
 		}
-		const params: Record<string, string | number> = { pid: ctx.pid, ...req.params };
+		const params: Record<string, string | number> = { pid: ctx.pid, token: reviewToken, ...req.params };
 		const path = row.route.replace(/\[(\w+)\]/g, (_, n: string) => String(params[n]));
 		const client = who === 'owner' ? owner : electrician;
 		const statuses = new Map<number, number>();
@@ -161,7 +166,7 @@ describe('fuzzed bodies never crash the server and refusals write nothing', () =
 		runCounts[name] = RUNS;
 		// most mutations must be refused as bad input (400), not slip through
 		expect((statuses.get(400) ?? 0) + (statuses.get(403) ?? 0) + (statuses.get(413) ?? 0)).toBeGreaterThan(RUNS / 3);
-	});
+	}, 120_000); // each run dumps the project for its before/after check; slow on a busy two-core machine
 });
 
 describe('prototype pollution', () => {
@@ -170,7 +175,7 @@ describe('prototype pollution', () => {
 		for (const row of writes) {
 			const req = await row.build(ctx);
 			if (req.form) continue;
-			const params: Record<string, string | number> = { pid: ctx.pid, ...req.params };
+			const params: Record<string, string | number> = { pid: ctx.pid, token: reviewToken, ...req.params };
 			const path = row.route.replace(/\[(\w+)\]/g, (_, n: string) => String(params[n]));
 			const valid = JSON.stringify(req.body);
 			// also merged into an otherwise valid body, at the top and one level down
