@@ -1,4 +1,5 @@
 import { strToU8, zipSync } from 'fflate';
+import { crc32, deflateRawSync } from 'node:zlib';
 
 // An invented fixture built from the published GDTF structure (DIN SPEC 15800):
 // description.xml → GDTF → FixtureType → DMXModes → DMXMode → DMXChannels →
@@ -68,4 +69,36 @@ export const PANEL_XML = `<?xml version="1.0" encoding="UTF-8" standalone="no" ?
 
 export function gdtfZip(xml = PANEL_XML, extra: Record<string, Uint8Array> = {}): Uint8Array {
 	return zipSync({ 'description.xml': strToU8(xml), ...extra });
+}
+
+/** A one-entry zip of `size` zero bytes, deflated by zlib (fast) and framed by hand (PKWARE APPNOTE.TXT 4.3). */
+export function zeroBomb(name: string, size: number): Uint8Array {
+	const data = deflateRawSync(Buffer.alloc(size), { level: 1 });
+	const crc = crc32(Buffer.alloc(size));
+	const nameBytes = Buffer.from(name);
+	const local = Buffer.alloc(30);
+	local.writeUInt32LE(0x04034b50, 0);
+	local.writeUInt16LE(20, 4);
+	local.writeUInt16LE(8, 8);
+	local.writeUInt32LE(crc, 14);
+	local.writeUInt32LE(data.length, 18);
+	local.writeUInt32LE(size, 22);
+	local.writeUInt16LE(nameBytes.length, 26);
+	const central = Buffer.alloc(46);
+	central.writeUInt32LE(0x02014b50, 0);
+	central.writeUInt16LE(20, 4);
+	central.writeUInt16LE(20, 6);
+	central.writeUInt16LE(8, 10);
+	central.writeUInt32LE(crc, 16);
+	central.writeUInt32LE(data.length, 20);
+	central.writeUInt32LE(size, 24);
+	central.writeUInt16LE(nameBytes.length, 28);
+	const cdOffset = local.length + nameBytes.length + data.length;
+	const end = Buffer.alloc(22);
+	end.writeUInt32LE(0x06054b50, 0);
+	end.writeUInt16LE(1, 8);
+	end.writeUInt16LE(1, 10);
+	end.writeUInt32LE(central.length + nameBytes.length, 12);
+	end.writeUInt32LE(cdOffset, 16);
+	return new Uint8Array(Buffer.concat([local, nameBytes, data, central, nameBytes, end]));
 }

@@ -8,7 +8,7 @@ import { ApiError } from '../api';
 export const MAX_UPLOAD_BYTES = 20 * 1024 * 1024;
 /** multipart framing around the file */
 export const MAX_FORM_BYTES = MAX_UPLOAD_BYTES + 64 * 1024;
-export const MAX_INFLATED_BYTES = 64 * 1024 * 1024;
+export const MAX_INFLATED_BYTES = 32 * 1024 * 1024;
 export const MAX_ZIP_ENTRIES = 2000;
 /** compressed bytes fed per step: bounds what one inflate step can produce (deflate tops out near 1032:1) */
 const FEED_BYTES = 8 * 1024;
