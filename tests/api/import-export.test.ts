@@ -5,6 +5,7 @@ import { request } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeCrew, PASSWORD } from '../helpers/factories';
 import { gdtfZip, PANEL_XML, zeroBomb } from '../helpers/gdtf';
+import { normaliseExport } from '../helpers/project-json';
 import { startServer, type Client, type TestServer } from '../helpers/server';
 import { fixtureTypes, fixtures, universes } from '../../src/lib/server/db/schema';
 
@@ -213,7 +214,7 @@ describe('exports', () => {
 		expect(res.headers.get('content-disposition')).toBe('attachment; filename="export-patch.csv"');
 		const rows = Papa.parse<Record<string, string>>(await res.text(), { header: true, skipEmptyLines: true }).data;
 		expect(rows[0]).toMatchObject({ number: '1', label: `'=HYPERLINK("http://x.invalid")`, notes: "'@SUM(A1)", universe: '2', address: '101', range: '2.101–111', slots: '11', control: 'dmx' });
-		expect(rows[1]).toMatchObject({ label: "'-neg", control: 'dmx-map', range: 'intensity 2.1–2; hue 2.20–21; strobe 2.30' });
+		expect(rows[1]).toMatchObject({ label: "'-neg", control: 'dmx-map', universe: '', address: '', range: 'intensity 2.1–2; hue 2.20–21; strobe 2.30' });
 	});
 
 	it('JSON round trip: export → import as a new project → export equals the first, ids and times aside', async () => {
@@ -242,7 +243,7 @@ describe('exports', () => {
 		expect(project.id).not.toBe(p);
 		const second = await (await as.owner.get(`/api/projects/${project.id}/export.json`)).json();
 		expect(second.fixtures[0].id).not.toBe(first.fixtures[0].id);
-		expect(normalise(second)).toEqual(normalise(first));
+		expect(normaliseExport(second)).toEqual(normaliseExport(first));
 		// the leader of the follower is the new project's fixture 10
 		const follower = second.fixtures.find((f: { number: number }) => f.number === 13);
 		expect(second.fixtures.find((f: { id: number }) => f.id === follower.control.leaderId).number).toBe(10);
@@ -259,30 +260,6 @@ describe('exports', () => {
 		expect((await (await as.programmer.get('/api/projects')).json()).projects.length).toBe(before);
 	});
 });
-
-/** Replaces every id by what it points at, and drops the export time. */
-function normalise(doc: Record<string, unknown> & { universes: { id: number; number: number }[]; types: { id: number; modes: { id: number }[] }[]; receivers: { id: number }[]; fixtures: { id: number; number: number; typeId: number; modeId: number; control: Record<string, unknown> }[] }) {
-	const u = new Map(doc.universes.map((x, i) => [x.id, i]));
-	const t = new Map(doc.types.map((x, i) => [x.id, i]));
-	const m = new Map(doc.types.flatMap((x, i) => x.modes.map((mm, j) => [mm.id, `${i}.${j}`] as const)));
-	const r = new Map(doc.receivers.map((x, i) => [x.id, i]));
-	const f = new Map(doc.fixtures.map((x) => [x.id, x.number]));
-	const { exportedAt, ...rest } = doc;
-	expect(typeof exportedAt).toBe('string');
-	return {
-		...rest,
-		universes: doc.universes.map((x) => ({ ...x, id: u.get(x.id) })),
-		types: doc.types.map((x) => ({ ...x, id: t.get(x.id), modes: x.modes.map((mm) => ({ ...mm, id: m.get(mm.id) })) })),
-		receivers: doc.receivers.map((x) => ({ ...x, id: r.get(x.id) })),
-		fixtures: doc.fixtures.map((x) => {
-			const c = { ...x.control };
-			if ('universeId' in c) c.universeId = u.get(c.universeId as number);
-			if ('receiverId' in c) c.receiverId = r.get(c.receiverId as number);
-			if ('leaderId' in c) c.leaderId = f.get(c.leaderId as number);
-			return { ...x, id: undefined, typeId: t.get(x.typeId), modeId: m.get(x.modeId), control: c };
-		})
-	};
-}
 
 describe('hostile uploads are refused cleanly, nothing is written, the server keeps answering', () => {
 	const before = () => [count(fixtureTypes), count(fixtures), count(universes)];

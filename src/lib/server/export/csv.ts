@@ -39,13 +39,15 @@ export function exportPatchCsv(projectId: number): string {
 			address = c.address;
 			range = f.slots.length ? `${universe}.${formatSlots(f.slots.flatMap((s) => Array.from({ length: s.end - s.start + 1 }, (_, i) => s.start + i)))}` : '';
 		} else if (c.kind === 'dmx-map') {
-			universe = universes.get(c.universeId ?? -1) ?? '';
+			// no single start address: the universe and address columns stay empty (an import then keeps the map)
+			// and the range column carries each parameter's universe.address
+			const u = universes.get(c.universeId ?? -1) ?? '?';
 			const bits = new Map(tm?.mode.channels.map((ch) => [ch.parameter, ch.bits]) ?? []);
 			range = Object.entries(c.addresses)
 				.sort((a, b) => a[1] - b[1])
 				.map(([param, a]) => {
 					const n = (bits.get(param) ?? 8) / 8;
-					return `${param} ${universe}.${n > 1 ? `${a}–${a + n - 1}` : a}`;
+					return `${param} ${u}.${n > 1 ? `${a}–${a + n - 1}` : a}`;
 				})
 				.join('; ');
 		} else if (c.kind === 'rc') {
