@@ -38,6 +38,13 @@ describe('CSV patch parsing', () => {
 		expect(() => parseCsvPatch('name,colour\nA,red')).toThrow(/no number or universe and address column \(found: name, colour\)/);
 	});
 
+	it('refuses more rows than the bulk fixture API takes in one go (5000)', () => {
+		const rows = Array.from({ length: 5001 }, (_, i) => `${i + 1},1,1`);
+		expect(() => parseCsvPatch(['number,universe,address', ...rows].join('\n'))).toThrow(/5001 rows; import at most 5000/);
+		// trailing blank lines are not rows
+		expect(parseCsvPatch(['number,universe,address', ...rows.slice(0, 5000), '', ''].join('\n')).rows).toHaveLength(5000);
+	});
+
 	it('a quoted cell with a line break is one row, as a spreadsheet shows it', () => {
 		const { rows } = parseCsvPatch('number,label,universe,address\n1,"two\nlines",1,1\n2,B,1,10');
 		expect(rows.map((r) => [r.row, r.number])).toEqual([

@@ -29,6 +29,9 @@ const SYNONYMS: Record<CsvField, string[]> = {
 	notes: ['notes', 'note', 'comments', 'comment', 'remarks']
 };
 
+/** the bulk fixture API's own cap: one transaction stays short enough not to stall the server */
+export const MAX_CSV_ROWS = 5000;
+
 export function normaliseHeader(h: string): string {
 	return h.toLowerCase().replace(/#/g, 'number').replace(/[^a-z0-9]/g, '');
 }
@@ -78,6 +81,10 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	const issues: ImportIssue[] = [];
 	if (records.length === 0 || records[0].every((c) => c.trim() === '')) {
 		throw new ApiError(422, 'The CSV has no header row.', { code: 'invalid-file', issues: [{ row: 1, field: 'header', message: 'Empty.' }] });
+	}
+	const filled = records.length - 1 > MAX_CSV_ROWS ? records.slice(1).filter((r) => r.some((c) => c.trim() !== '')).length : 0;
+	if (filled > MAX_CSV_ROWS) {
+		throw new ApiError(422, `The CSV has ${filled} rows; import at most ${MAX_CSV_ROWS} at a time.`, { code: 'invalid-file', issues: [{ row: MAX_CSV_ROWS + 2, field: 'row', message: 'Too many rows.' }] });
 	}
 	const { columns, ignored } = matchHeaders(records[0]);
 	const missing: string[] = [];
