@@ -66,6 +66,8 @@ export async function startServer(options: StartOptions = {}): Promise<TestServe
 			AUTH_SECRET: randomBytes(32).toString('base64url'),
 			PATCHWRIGHT_DEMO: options.demo ? '1' : '0',
 			PATCHWRIGHT_RATE_SCALE: '1000',
+			// outlive the client's own 4 s idle timeout, so a loaded machine never races a closing socket (ECONNRESET)
+			KEEP_ALIVE_TIMEOUT: '65',
 			...options.env
 		},
 		stdio: ['ignore', 'pipe', 'pipe']

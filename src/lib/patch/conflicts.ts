@@ -1,10 +1,11 @@
 import {
+	compileMode,
 	formatSlots,
-	modeSlotCount,
 	own,
 	resolveDmx,
 	resolveDmxMap,
 	UNIVERSE_SLOTS,
+	type CompiledMode,
 	type FootprintProblem
 } from './footprint';
 import { sweep, type Claim } from './sweep';
@@ -76,36 +77,51 @@ function receiverName(r: Receiver): string {
 	return r.name !== undefined && r.name !== '' ? `receiver "${r.name}"` : `receiver ${r.id}`;
 }
 
-/** Footprints, slot claims and every conflict of a patch, computed in one pass. */
-export function analysePatch(input: PatchInput): PatchAnalysis {
+function sortedByNumber(fixtures: readonly PatchFixture[]): readonly PatchFixture[] {
+	// Databases usually answer in number order already; check before paying for a sort.
+	for (let i = 1; i < fixtures.length; i++) if (byNumber(fixtures[i - 1], fixtures[i]) > 0) return [...fixtures].sort(byNumber);
+	return fixtures;
+}
+
+/**
+ * Footprints, slot claims and every conflict of a patch, computed in one pass. `footprints: false`
+ * skips the per-fixture list when only conflicts are wanted (it is most of the allocation).
+ */
+export function analysePatch(input: PatchInput, { footprints: wantFootprints = true }: { footprints?: boolean } = {}): PatchAnalysis {
 	const modes = isModeMap(input.modes) ? input.modes : new Map(input.modes.map((m) => [m.id, m]));
+	const compiled = new Map<number, CompiledMode>();
+	for (const [id, m] of modes) compiled.set(id, compileMode(m));
 	const universes = [...input.universes].sort((a, b) => a.number - b.number || a.id - b.id);
 	const universeIndex = new Map<number, number>();
 	universes.forEach((u, i) => universeIndex.set(u.id, i));
-	const fixtures = [...input.fixtures].sort(byNumber);
-	const fixtureById = new Map<number, PatchFixture>();
-	for (const f of fixtures) fixtureById.set(f.id, f);
+	const fixtures = sortedByNumber(input.fixtures);
 
 	const conflicts: Conflict[] = [];
+	// Numbers of the fixtures named in conflicts, for ordering them without indexing every fixture.
+	const numbers = new Map<number, number>();
 	const add = (kind: ConflictKind, on: readonly PatchFixture[], message: string, extra: Partial<Conflict> = {}): void => {
+		for (const f of on) numbers.set(f.id, f.number);
 		conflicts.push({ kind, severity: SEVERITY[kind], ...extra, fixtureIds: on.map((f) => f.id), message });
 	};
 
 	const footprints: FixtureFootprint[] = [];
 	const claims: Claim[] = [];
 	const claimFixture: PatchFixture[] = [];
-	const unitsOn: PatchFixture[][] = universes.map(() => []);
+	const unitsOn = new Int32Array(universes.length);
+	const rcFixtures: PatchFixture[] = [];
+	const followers: PatchFixture[] = [];
 	for (const f of fixtures) {
 		const c = f.control;
-		const mode = modes.get(f.modeId);
-		const entry: FixtureFootprint = {
-			fixtureId: f.id,
-			footprint: mode === undefined ? null : modeSlotCount(mode),
-			universeId: c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null,
-			ranges: []
-		};
-		footprints.push(entry);
-		if (c.kind !== 'dmx' && c.kind !== 'dmx-map') continue;
+		const mode = compiled.get(f.modeId);
+		const entry: FixtureFootprint | undefined = wantFootprints
+			? { fixtureId: f.id, footprint: mode === undefined ? null : mode.slotCount, universeId: c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null, ranges: [] }
+			: undefined;
+		if (entry !== undefined) footprints.push(entry);
+		if (c.kind !== 'dmx' && c.kind !== 'dmx-map') {
+			if (c.kind === 'rc') rcFixtures.push(f);
+			else if (c.kind === 'follow') followers.push(f);
+			continue;
+		}
 		const ui = c.universeId === null ? undefined : universeIndex.get(c.universeId);
 		if (ui === undefined) {
 			add(
@@ -117,12 +133,11 @@ export function analysePatch(input: PatchInput): PatchAnalysis {
 			);
 			continue;
 		}
-		const u = universes[ui];
-		unitsOn[ui].push(f);
-		if (mode === undefined || entry.footprint === null) continue;
-		const resolved = c.kind === 'dmx' ? resolveDmx(c.address, entry.footprint) : resolveDmxMap(c.addresses, mode);
-		for (const p of resolved.problems) reportFootprint(add, f, u, entry.footprint, p);
-		entry.ranges = resolved.runs;
+		unitsOn[ui]++;
+		if (mode === undefined) continue;
+		const resolved = c.kind === 'dmx' ? resolveDmx(c.address, mode.slotCount) : resolveDmxMap(c.addresses, mode);
+		for (const p of resolved.problems) reportFootprint(add, f, universes[ui], mode.slotCount, p);
+		if (entry !== undefined) entry.ranges = resolved.runs;
 		if (resolved.runs.length > 0) {
 			claims.push({ universe: ui, runs: resolved.runs });
 			claimFixture.push(f);
@@ -162,10 +177,10 @@ export function analysePatch(input: PatchInput): PatchAnalysis {
 		}
 	}
 
-	checkRc(fixtures, modes, input.receivers ?? [], add);
-	checkLines(fixtures, fixtureById, universes, universeIndex, unitsOn, add);
+	checkRc(rcFixtures, modes, input.receivers ?? [], add);
+	checkLines(followers, fixtures, universes, universeIndex, unitsOn, add);
 
-	const numberOf = (id: number): number => fixtureById.get(id)?.number ?? 0;
+	const numberOf = (id: number): number => numbers.get(id) ?? 0;
 	const universeRank = new Map<number, number>();
 	universes.forEach((u, i) => universeRank.set(u.id, i));
 	for (const c of conflicts) c.fixtureIds.sort((x, y) => numberOf(x) - numberOf(y) || x - y);
@@ -175,7 +190,7 @@ export function analysePatch(input: PatchInput): PatchAnalysis {
 
 /** Every conflict of a patch, in a stable order: errors first, then by universe, slot and fixture. */
 export function findConflicts(input: PatchInput): Conflict[] {
-	return analysePatch(input).conflicts;
+	return analysePatch(input, { footprints: false }).conflicts;
 }
 
 type Add = (kind: ConflictKind, on: readonly PatchFixture[], message: string, extra?: Partial<Conflict>) => void;
@@ -249,15 +264,22 @@ function checkRc(fixtures: readonly PatchFixture[], modes: ReadonlyMap<number, M
 }
 
 function checkLines(
+	followers: readonly PatchFixture[],
 	fixtures: readonly PatchFixture[],
-	byId: ReadonlyMap<number, PatchFixture>,
 	universes: readonly Universe[],
 	universeIndex: ReadonlyMap<number, number>,
-	unitsOn: PatchFixture[][],
+	unitsOn: Int32Array,
 	add: Add
 ): void {
+	const lineOf = (f: PatchFixture): number | undefined => {
+		const c = f.control;
+		return (c.kind === 'dmx' || c.kind === 'dmx-map') && c.universeId !== null ? universeIndex.get(c.universeId) : undefined;
+	};
 	// A follower is daisy-chained from its leader, so it is a unit load on the leader's line.
-	for (const f of fixtures) {
+	const byId = new Map<number, PatchFixture>();
+	if (followers.length > 0) for (const f of fixtures) byId.set(f.id, f);
+	const followerLine = new Map<PatchFixture, number>();
+	for (const f of followers) {
 		if (f.control.kind !== 'follow') continue;
 		const seen = new Set<number>([f.id]);
 		let leader = byId.get(f.control.leaderId);
@@ -265,17 +287,22 @@ function checkLines(
 			seen.add(leader.id);
 			leader = byId.get(leader.control.leaderId);
 		}
-		const lc = leader?.control;
-		if (lc === undefined || (lc.kind !== 'dmx' && lc.kind !== 'dmx-map') || lc.universeId === null) continue;
-		const ui = universeIndex.get(lc.universeId);
-		if (ui !== undefined) unitsOn[ui].push(f);
+		const ui = leader === undefined ? undefined : lineOf(leader);
+		if (ui === undefined) continue;
+		followerLine.set(f, ui);
+		unitsOn[ui]++;
 	}
+	// Fixtures are gathered per line only once a line is known to be overloaded.
+	const overloaded = new Map<number, PatchFixture[]>();
 	universes.forEach((u, i) => {
-		const on = unitsOn[i];
-		if (u.transport !== 'dmx-wired' || on.length <= UNITS_PER_LINE) return;
-		on.sort(byNumber);
-		add('line-overload', on, `Universe ${u.number} (wired DMX) carries ${on.length} units on one line; EIA-485 allows ${UNITS_PER_LINE} unit loads per segment — add a splitter or move fixtures.`, { universeId: u.id });
+		if (u.transport === 'dmx-wired' && unitsOn[i] > UNITS_PER_LINE) overloaded.set(i, []);
 	});
+	if (overloaded.size === 0) return;
+	for (const f of fixtures) overloaded.get(lineOf(f) ?? followerLine.get(f) ?? -1)?.push(f);
+	for (const [i, on] of overloaded) {
+		const u = universes[i];
+		add('line-overload', on, `Universe ${u.number} (wired DMX) carries ${on.length} units on one line; EIA-485 allows ${UNITS_PER_LINE} unit loads per segment — add a splitter or move fixtures.`, { universeId: u.id });
+	}
 }
 
 function compareConflicts(x: Conflict, y: Conflict, universeRank: ReadonlyMap<number, number>, numberOf: (id: number) => number): number {

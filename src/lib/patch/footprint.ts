@@ -52,7 +52,8 @@ export type FootprintProblem =
 export interface ResolvedFootprint {
 	/** Claimed slots inside 1–512 as sorted, disjoint, maximal runs (an overflow is clipped at 512). */
 	runs: SlotRange[];
-	problems: FootprintProblem[];
+	/** Read-only: the empty list is shared. */
+	problems: readonly FootprintProblem[];
 }
 
 /** Own-property lookup: parameter names are free text, so "constructor" must not hit the prototype. */
@@ -64,10 +65,13 @@ function isAddress(a: number): boolean {
 	return Number.isInteger(a) && a >= 1 && a <= UNIVERSE_SLOTS;
 }
 
+// Shared by every fixture without a problem, so the common case allocates nothing for it.
+const NO_PROBLEMS: FootprintProblem[] = [];
+
 /** Contiguous footprint from the start address. */
 export function resolveDmx(address: number, slotCount: number): ResolvedFootprint {
 	if (!isAddress(address)) return { runs: [], problems: [{ kind: 'out-of-range', address }] };
-	if (slotCount === 0) return { runs: [], problems: [] };
+	if (slotCount === 0) return { runs: [], problems: NO_PROBLEMS };
 	const last = address + slotCount - 1;
 	if (last > UNIVERSE_SLOTS) {
 		return {
@@ -75,44 +79,77 @@ export function resolveDmx(address: number, slotCount: number): ResolvedFootprin
 			problems: [{ kind: 'overflow', address, needs: slotCount, lastSlot: last }]
 		};
 	}
-	return { runs: [{ start: address, end: last }], problems: [] };
+	return { runs: [{ start: address, end: last }], problems: NO_PROBLEMS };
 }
 
-/** Union of each parameter's slots; a 16-bit parameter at a takes a and a + 1. */
-export function resolveDmxMap(addresses: Readonly<Record<string, number>>, mode: Mode): ResolvedFootprint {
-	const problems: FootprintProblem[] = [];
-	const slots: number[] = [];
+/** What the slot rules need from a mode, worked out once per mode rather than once per fixture. */
+export interface CompiledMode {
+	slotCount: number;
+	/** Parameters with a slot, first channel of each name only, in channel order. */
+	mapped: { parameter: string; bytes: number }[];
+}
+
+export function compileMode(mode: Mode): CompiledMode {
+	const mapped: CompiledMode['mapped'] = [];
 	const seen = new Set<string>();
 	for (const ch of mode.channels) {
 		if (ch.offset === null || seen.has(ch.parameter)) continue;
 		seen.add(ch.parameter);
-		const a = own(addresses, ch.parameter);
+		mapped.push({ parameter: ch.parameter, bytes: bytesOf(ch.bits) });
+	}
+	return { slotCount: modeSlotCount(mode), mapped };
+}
+
+/** Union of each parameter's slots; a 16-bit parameter at a takes a and a + 1. */
+export function resolveDmxMap(addresses: Readonly<Record<string, number>>, mode: Mode | CompiledMode): ResolvedFootprint {
+	const compiled = 'mapped' in mode ? mode : compileMode(mode);
+	let problems: FootprintProblem[] = NO_PROBLEMS;
+	const slots: number[] = [];
+	for (const { parameter, bytes } of compiled.mapped) {
+		const a = own(addresses, parameter);
 		if (a === undefined || !isAddress(a)) {
-			problems.push({ kind: 'out-of-range', parameter: ch.parameter, address: a ?? null });
+			if (problems === NO_PROBLEMS) problems = [];
+			problems.push({ kind: 'out-of-range', parameter, address: a ?? null });
 			continue;
 		}
-		const n = bytesOf(ch.bits);
-		const last = a + n - 1;
+		const last = a + bytes - 1;
 		if (last > UNIVERSE_SLOTS) {
-			problems.push({ kind: 'overflow', parameter: ch.parameter, address: a, needs: n, lastSlot: last });
+			if (problems === NO_PROBLEMS) problems = [];
+			problems.push({ kind: 'overflow', parameter, address: a, needs: bytes, lastSlot: last });
 		}
 		for (let s = a; s <= Math.min(last, UNIVERSE_SLOTS); s++) slots.push(s);
 	}
-	slots.sort((x, y) => x - y);
+	// Insertion sort: a mode has a handful of slots, and this runs once per fixture.
+	for (let i = 1; i < slots.length; i++) {
+		const v = slots[i];
+		let j = i - 1;
+		while (j >= 0 && slots[j] > v) {
+			slots[j + 1] = slots[j];
+			j--;
+		}
+		slots[j + 1] = v;
+	}
 	const runs: SlotRange[] = [];
-	const doubled: number[] = [];
+	let doubled: number[] | undefined;
 	for (const s of slots) {
 		const run = runs[runs.length - 1];
 		if (run !== undefined && s <= run.end) {
+			doubled ??= [];
 			if (doubled[doubled.length - 1] !== s) doubled.push(s);
 		} else if (run !== undefined && s === run.end + 1) run.end = s;
 		else runs.push({ start: s, end: s });
 	}
-	if (doubled.length > 0) {
+	if (doubled !== undefined) {
 		const doubledSet = new Set(doubled);
-		const names = parameterSlots({ kind: 'dmx-map', universeId: null, addresses }, mode)
-			.filter((p) => p.slots.some((s) => doubledSet.has(s)))
+		const names = compiled.mapped
+			.filter(({ parameter, bytes }) => {
+				const a = own(addresses, parameter);
+				if (a === undefined) return false;
+				for (let s = a; s < a + bytes; s++) if (doubledSet.has(s)) return true;
+				return false;
+			})
 			.map((p) => p.parameter);
+		if (problems === NO_PROBLEMS) problems = [];
 		problems.push({ kind: 'self-overlap', slots: doubled, parameters: names });
 	}
 	return { runs, problems };

@@ -14,41 +14,66 @@ export interface SweepResult {
 	stacks: number[][];
 }
 
-// Sort key = (universe · 1024 + start) · 2^22 + run: stays an exact integer below 2^53.
+// Comparison sort key = (universe · 1024 + start) · 2^22 + run: an exact integer below 2^53.
 const RUN_BITS = 4194304;
 const MAX_UNIVERSES = 2 ** 19;
+// Starts are 1–512, so (universe, start) has few distinct values: above this many buckets per
+// run, a comparison sort beats counting.
+const BUCKETS_PER_RUN = 8;
 
 /**
- * One sort-and-sweep over all runs of all universes: O(n log n + overlaps). Runs are sorted by
- * (universe, start); an active list holds runs still open at the current start, so each run is
- * compared only with runs it actually intersects. Claims whose first runs share a start and that
- * `sameLayout` accepts are stacked (union-find) instead of reported as overlaps.
+ * One sort-and-sweep over all runs of all universes: O(n log n + overlaps) (a counting sort on
+ * (universe, start) makes the sort linear when universes are few). Runs are sorted by
+ * (universe, start, input order); an active list holds runs still open at the current start, so
+ * each run is compared only with runs it actually intersects. Claims whose first runs share a
+ * start and that `sameLayout` accepts are stacked (union-find) instead of reported as overlaps.
  */
-export function sweep(claims: readonly Claim[], sameLayout: (a: number, b: number) => boolean): SweepResult {
+export function sweep(
+	claims: readonly Claim[],
+	sameLayout: (a: number, b: number) => boolean,
+	{ comparisonSort = false }: { comparisonSort?: boolean } = {}
+): SweepResult {
 	let n = 0;
-	for (const c of claims) n += c.runs.length;
+	let universes = 0;
+	for (const c of claims) {
+		n += c.runs.length;
+		if (c.universe >= universes) universes = c.universe + 1;
+	}
 	if (n >= RUN_BITS || claims.length >= RUN_BITS) throw new RangeError(`too many slot runs to sweep (${n})`);
+	if (universes > MAX_UNIVERSES) throw new RangeError('too many universes to sweep');
 	const runStart = new Int32Array(n);
 	const runEnd = new Int32Array(n);
 	const runClaim = new Int32Array(n);
+	const runUniverse = new Int32Array(n);
 	const runFirst = new Uint8Array(n);
-	const keys = new Float64Array(n);
 	let r = 0;
 	for (let ci = 0; ci < claims.length; ci++) {
 		const c = claims[ci];
-		if (c.universe >= MAX_UNIVERSES) throw new RangeError('too many universes to sweep');
-		for (let k = 0; k < c.runs.length; k++) {
-			const run = c.runs[k];
-			runStart[r] = run.start;
-			runEnd[r] = run.end;
+		const runs = c.runs;
+		for (let k = 0; k < runs.length; k++) {
+			runStart[r] = runs[k].start;
+			runEnd[r] = runs[k].end;
 			runClaim[r] = ci;
+			runUniverse[r] = c.universe;
 			runFirst[r] = k === 0 ? 1 : 0;
-			keys[r] = (c.universe * 1024 + run.start) * RUN_BITS + r;
 			r++;
 		}
 	}
-	// A typed-array sort compares numbers natively, without a comparator call per comparison.
-	keys.sort();
+
+	const order = new Int32Array(n);
+	const buckets = universes * 513;
+	if (!comparisonSort && buckets <= BUCKETS_PER_RUN * n + 65536) {
+		const next = new Int32Array(buckets + 1);
+		for (let i = 0; i < n; i++) next[runUniverse[i] * 513 + runStart[i] + 1]++;
+		for (let b = 1; b <= buckets; b++) next[b] += next[b - 1];
+		for (let i = 0; i < n; i++) order[next[runUniverse[i] * 513 + runStart[i]]++] = i;
+	} else {
+		const keys = new Float64Array(n);
+		for (let i = 0; i < n; i++) keys[i] = (runUniverse[i] * 1024 + runStart[i]) * RUN_BITS + i;
+		// A typed-array sort compares numbers natively, without a comparator call per comparison.
+		keys.sort();
+		for (let k = 0; k < n; k++) order[k] = keys[k] % RUN_BITS;
+	}
 
 	const parent = new Int32Array(claims.length);
 	for (let i = 0; i < parent.length; i++) parent[i] = i;
@@ -67,11 +92,11 @@ export function sweep(claims: readonly Claim[], sameLayout: (a: number, b: numbe
 	let activeLen = 0;
 	let universe = -1;
 	for (let k = 0; k < n; k++) {
-		const i = keys[k] % RUN_BITS;
+		const i = order[k];
 		const ci = runClaim[i];
 		const s = runStart[i];
 		const e = runEnd[i];
-		const u = claims[ci].universe;
+		const u = runUniverse[i];
 		if (u !== universe) {
 			universe = u;
 			activeLen = 0;

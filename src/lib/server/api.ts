@@ -36,7 +36,8 @@ export function apiError(
 			error: { code: code ?? CODE_FOR_STATUS[status] ?? 'error', message, ...(issues ? { issues } : {}) },
 			...rest
 		},
-		{ status }
+		// a refused body may be left unread; closing stops the client reusing a connection still carrying it
+		{ status, headers: status === 413 ? { connection: 'close' } : {} }
 	);
 }
 
@@ -58,10 +59,11 @@ export function zodIssues(err: ZodError): ApiIssue[] {
 	}));
 }
 
-async function readLimited(request: Request, limit: number): Promise<string> {
+/** The raw body, refusing (413) past `limit` bytes without reading the rest. */
+export async function readLimitedBytes(request: Request, limit: number): Promise<Buffer> {
 	const declared = Number(request.headers.get('content-length') ?? 0);
 	if (declared > limit) throw new ApiError(413, `The request body is over ${limit} bytes.`);
-	if (!request.body) return '';
+	if (!request.body) return Buffer.alloc(0);
 	const reader = request.body.getReader();
 	const chunks: Uint8Array[] = [];
 	let size = 0;
@@ -75,7 +77,11 @@ async function readLimited(request: Request, limit: number): Promise<string> {
 		}
 		chunks.push(value);
 	}
-	return Buffer.concat(chunks).toString('utf8');
+	return Buffer.concat(chunks);
+}
+
+async function readLimited(request: Request, limit: number): Promise<string> {
+	return (await readLimitedBytes(request, limit)).toString('utf8');
 }
 
 /** Reads a JSON body (≤ 1 MB) and validates it; bad input answers 400 before anything is written. */

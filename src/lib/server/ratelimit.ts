@@ -35,3 +35,7 @@ const scale = Number(process.env.PATCHWRIGHT_RATE_SCALE || 1);
 /** Sign-in attempts: per client address and per account. */
 export const signInByIp = rateLimiter(30 * scale, 60_000);
 export const signInByAccount = rateLimiter(10 * scale, 5 * 60_000);
+
+/** Review-link token lookups and sign-offs, per client address: tokens must not be guessable by trying. */
+export const reviewLookupByIp = rateLimiter(60 * scale, 60_000);
+export const signoffByIp = rateLimiter(10 * scale, 60_000);

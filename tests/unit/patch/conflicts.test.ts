@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { findConflicts, type Bits, type Conflict, type Mode, type PatchFixture, type PatchInput, type Receiver, type Universe } from '../../../src/lib/patch';
+import { findConflicts, sweep, type Bits, type Conflict, type Mode, type PatchFixture, type PatchInput, type Receiver, type Universe } from '../../../src/lib/patch';
 import { channel, dmx, fixture, plainMode, universe } from './factories';
 
 const kinds = (cs: Conflict[]): string[] => cs.map((c) => c.kind);
@@ -306,6 +306,33 @@ describe('conflicts — property: sweep equals a brute-force slot-by-slot oracle
 					}
 					expect(over.has(f.id)).toBe(expected);
 				}
+			}),
+			{ numRuns: 300 }
+		);
+	});
+});
+
+describe('sweep — both sort strategies agree', () => {
+	it('gives the same overlaps and stacks with the counting sort and the comparison sort', () => {
+		const runArb = fc.array(fc.record({ start: fc.integer({ min: 1, max: 40 }), len: fc.integer({ min: 0, max: 6 }) }), { minLength: 1, maxLength: 3 });
+		const claimsArb = fc.array(fc.record({ universe: fc.integer({ min: 0, max: 3 }), runs: runArb }), { maxLength: 25 }).map((cs) =>
+			cs.map((c) => {
+				// Make the runs of one claim disjoint and sorted, as footprints are.
+				const runs: { start: number; end: number }[] = [];
+				let at = 0;
+				for (const r of c.runs) {
+					const start = Math.max(r.start, at + 2);
+					runs.push({ start, end: start + r.len });
+					at = start + r.len;
+				}
+				return { universe: c.universe, runs };
+			})
+		);
+		fc.assert(
+			fc.property(claimsArb, (claims) => {
+				const same = (a: number, b: number): boolean => JSON.stringify(claims[a]) === JSON.stringify(claims[b]);
+				const counting = sweep(claims, same);
+				expect(sweep(claims, same, { comparisonSort: true })).toEqual(counting);
 			}),
 			{ numRuns: 300 }
 		);

@@ -64,3 +64,38 @@ export function invitationMail(
 		action: { label: 'Join the project', url }
 	});
 }
+
+export function signoffMail(
+	to: string,
+	input: { projectName: string; revision: number; note: string; decision: 'approved' | 'changes-requested'; name: string; comment: string; url: string }
+): OutgoingMail {
+	const verdict = input.decision === 'approved' ? 'approved' : 'asked for changes to';
+	return composeMail({
+		to,
+		subject: `${input.projectName}: revision ${input.revision} ${input.decision === 'approved' ? 'approved' : 'changes requested'} by ${input.name}`,
+		lines: [
+			`${input.name} ${verdict} revision ${input.revision} of "${input.projectName}".`,
+			...(input.note ? [`Revision note: ${input.note}`] : []),
+			input.comment ? `Comment: ${input.comment}` : 'No comment was left.'
+		],
+		action: { label: 'Open the revisions', url: input.url }
+	});
+}
+
+export function reviewLinkMail(
+	to: string,
+	input: { projectName: string; revision: number | 'latest'; sentBy: string; expiresAt: Date | null; url: string }
+): OutgoingMail {
+	const what = input.revision === 'latest' ? 'the latest revision' : `revision ${input.revision}`;
+	return composeMail({
+		to,
+		subject: `Please review the patch for ${input.projectName}`,
+		lines: [
+			`${input.sentBy} asks you to review ${what} of the lighting patch for "${input.projectName}".`,
+			'Open the link on your phone or computer; no account is needed. You can approve it or ask for changes.',
+			input.expiresAt ? `The link works until ${input.expiresAt.toISOString().slice(0, 10)}.` : 'The link works until it is revoked.',
+			'Anyone with the link can read this revision, so please do not forward it.'
+		],
+		action: { label: 'Review the patch', url: input.url }
+	});
+}

@@ -1,0 +1,337 @@
+import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import {
+	autoAddress,
+	defaultChannelCount,
+	modeSlotCount,
+	resolveDmx,
+	resolveDmxMap,
+	type AutoAddressResult,
+	type FootprintProblem
+} from '../../patch/index';
+import { ApiError, type ApiIssue } from '../api';
+import { recordAudit } from './audit';
+import { InUseError, StaleVersionError } from './errors';
+import { db } from './index';
+import { controlColumns, controlOf, fixtureShape, listTypes, loadPatch, type FixtureRow, type FixtureShape, type ModeShape } from './patch';
+import { fixtures, receivers, universes, uploads } from './schema';
+import { detachFixture } from './universes';
+import type { AutopatchInput, FixtureCreate, FixturePatch } from '../../schemas/fixture';
+
+type Path = (string | number)[];
+
+/** What a fixture write is checked against: this project's types, universes, receivers and fixtures. */
+interface Context {
+	modes: Map<number, { typeId: number; mode: ModeShape }>;
+	typeIds: Set<number>;
+	universes: Map<number, number>;
+	receivers: Map<number, { name: string; count: number }>;
+	fixtures: Map<number, { number: number; kind: FixtureRow['controlKind']; leaderId: number | null }>;
+}
+
+function loadContext(projectId: number): Context {
+	const modes = new Map<number, { typeId: number; mode: ModeShape }>();
+	const typeIds = new Set<number>();
+	for (const t of listTypes(projectId)) {
+		typeIds.add(t.id);
+		for (const m of t.modes) modes.set(m.id, { typeId: t.id, mode: m });
+	}
+	const u = db().select({ id: universes.id, number: universes.number }).from(universes).where(eq(universes.projectId, projectId)).all();
+	const r = db().select().from(receivers).where(eq(receivers.projectId, projectId)).all();
+	const f = db()
+		.select({ id: fixtures.id, number: fixtures.number, kind: fixtures.controlKind, leaderId: fixtures.leaderId })
+		.from(fixtures)
+		.where(eq(fixtures.projectId, projectId))
+		.all();
+	return {
+		modes,
+		typeIds,
+		universes: new Map(u.map((x) => [x.id, x.number])),
+		receivers: new Map(r.map((x) => [x.id, { name: x.name, count: defaultChannelCount(x.protocol) }])),
+		fixtures: new Map(f.map((x) => [x.id, { number: x.number, kind: x.kind, leaderId: x.leaderId }]))
+	};
+}
+
+function problemMessage(p: FootprintProblem, slots: number): string {
+	switch (p.kind) {
+		case 'overflow':
+			return p.parameter === undefined
+				? `This mode needs ${slots} slots; from address ${p.address} it would run to slot ${p.lastSlot}, past 512. Start at ${513 - slots} or lower.`
+				: `${p.parameter} at ${p.address} needs ${p.needs} slots and would run to slot ${p.lastSlot}, past 512.`;
+		case 'self-overlap':
+			return `${p.parameters.join(' and ')} both claim slot ${p.slots.join(', ')} — give each parameter its own address.`;
+		default:
+			return `Address ${p.address} is outside 1–512.`;
+	}
+}
+
+/** Every check that needs the database; answers issues rather than throwing so a batch reports all at once. */
+function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): ApiIssue[] {
+	const issues: ApiIssue[] = [];
+	const at = (p: Path, message: string) => issues.push({ path: [...path, ...p], message });
+	if (!ctx.typeIds.has(f.typeId)) at(['typeId'], 'No such fixture type in this project.');
+	const mode = ctx.modes.get(f.modeId);
+	if (!mode) at(['modeId'], 'No such mode in this project.');
+	else if (mode.typeId !== f.typeId) at(['modeId'], 'This mode belongs to another fixture type.');
+	const c = f.control;
+	const params = new Set(mode?.mode.channels.map((ch) => ch.parameter) ?? []);
+	switch (c.kind) {
+		case 'dmx': {
+			if (!ctx.universes.has(c.universeId)) at(['control', 'universeId'], 'No such universe in this project.');
+			if (mode) {
+				const slots = modeSlotCount(mode.mode);
+				for (const p of resolveDmx(c.address, slots).problems) at(['control', 'address'], problemMessage(p, slots));
+			}
+			break;
+		}
+		case 'dmx-map': {
+			if (!ctx.universes.has(c.universeId)) at(['control', 'universeId'], 'No such universe in this project.');
+			if (!mode) break;
+			const slotted = new Set(mode.mode.channels.filter((ch) => ch.offset !== null).map((ch) => ch.parameter));
+			for (const key of Object.keys(c.addresses)) {
+				if (!slotted.has(key)) at(['control', 'addresses', key], `"${key}" is not a parameter of mode "${mode.mode.name}" that takes a slot.`);
+			}
+			for (const p of resolveDmxMap(c.addresses, mode.mode).problems) {
+				// a parameter left out is an open item the conflicts list shows, not bad input
+				if (p.kind === 'out-of-range' && p.address === null) continue;
+				at(['control', 'addresses', ...('parameter' in p && p.parameter ? [p.parameter] : [])], problemMessage(p, 0));
+			}
+			break;
+		}
+		case 'rc': {
+			const r = ctx.receivers.get(c.receiverId);
+			if (!r) at(['control', 'receiverId'], 'No such receiver in this project.');
+			for (const [key, ch] of Object.entries(c.channels)) {
+				if (mode && !params.has(key)) at(['control', 'channels', key], `"${key}" is not a parameter of mode "${mode.mode.name}".`);
+				if (r && ch > r.count) at(['control', 'channels', key], `Receiver "${r.name}" has channels 1–${r.count}.`);
+			}
+			break;
+		}
+		case 'follow': {
+			const leader = ctx.fixtures.get(c.leaderId);
+			if (!leader) at(['control', 'leaderId'], 'No such fixture in this project.');
+			else if (c.leaderId === selfId) at(['control', 'leaderId'], 'A fixture cannot follow itself.');
+			else if (leader.kind === 'follow') at(['control', 'leaderId'], `Fixture ${leader.number} follows another fixture itself; follow its leader.`);
+			if (selfId !== undefined && [...ctx.fixtures.values()].some((o) => o.kind === 'follow' && o.leaderId === selfId)) {
+				at(['control', 'kind'], 'Other fixtures follow this one; a leader cannot follow.');
+			}
+			break;
+		}
+	}
+	return issues;
+}
+
+function columnsOf(f: FixtureCreate) {
+	return {
+		number: f.number,
+		label: f.label,
+		typeId: f.typeId,
+		modeId: f.modeId,
+		position: f.position,
+		groupName: f.group,
+		linkGroup: f.linkGroup,
+		colour: f.colour,
+		watts: f.watts,
+		notes: f.notes,
+		state: f.state,
+		lookHue: f.look.hue ?? null,
+		lookSaturation: f.look.saturation ?? null,
+		lookIntensity: f.look.intensity ?? null,
+		lookCct: f.look.cct ?? null,
+		...controlColumns(f.control)
+	};
+}
+
+/** The row as a full create body, so a PATCH is checked exactly like a create. */
+function asInput(s: FixtureShape): FixtureCreate {
+	return {
+		number: s.number,
+		label: s.label,
+		typeId: s.typeId,
+		modeId: s.modeId,
+		position: s.position,
+		group: s.group,
+		linkGroup: s.linkGroup,
+		colour: s.colour,
+		watts: s.watts,
+		notes: s.notes,
+		state: s.state,
+		look: s.look,
+		control: s.control as FixtureCreate['control']
+	};
+}
+
+function refuse(issues: ApiIssue[]): never {
+	throw new ApiError(400, issues.length === 1 ? issues[0].message : `${issues.length} problems; nothing was written.`, { issues });
+}
+
+function numbersClash(ctx: Context, wanted: { number: number; id?: number; path: Path }[]): void {
+	const owner = new Map<number, number | undefined>();
+	for (const [id, f] of ctx.fixtures) owner.set(f.number, id);
+	// fixtures in this write release their old numbers
+	for (const w of wanted) if (w.id !== undefined) owner.delete(ctx.fixtures.get(w.id)!.number);
+	const issues: ApiIssue[] = [];
+	for (const w of wanted) {
+		if (owner.has(w.number) && owner.get(w.number) !== w.id) {
+			issues.push({ path: [...w.path, 'number'], message: `Fixture number ${w.number} is already taken in this project.` });
+		}
+		owner.set(w.number, w.id);
+	}
+	if (issues.length > 0) throw new ApiError(409, issues[0].message + (issues.length > 1 ? ` (and ${issues.length - 1} more)` : ''), { code: 'duplicate', issues });
+}
+
+export function getFixture(projectId: number, id: number): FixtureShape | undefined {
+	const row = db().select().from(fixtures).where(and(eq(fixtures.id, id), eq(fixtures.projectId, projectId))).get();
+	return row ? fixtureShape(row) : undefined;
+}
+
+export function requireFixture(projectId: number, id: number): FixtureShape {
+	const f = getFixture(projectId, id);
+	if (!f) throw new ApiError(404, 'No such fixture in this project.');
+	return f;
+}
+
+/** One fixture or many, all-or-nothing. */
+export function createFixtures(projectId: number, userId: string, inputs: FixtureCreate[]): FixtureShape[] {
+	return db().transaction(() => {
+		const ctx = loadContext(projectId);
+		const many = inputs.length > 1;
+		const issues = inputs.flatMap((f, i) => check(ctx, f, many ? [i] : []));
+		if (issues.length > 0) refuse(issues);
+		numbersClash(ctx, inputs.map((f, i) => ({ number: f.number, path: many ? [i] : [] })));
+		return inputs.map((f) => {
+			const row = db().insert(fixtures).values({ projectId, ...columnsOf(f) }).returning().get();
+			const shape = fixtureShape(row);
+			recordAudit({ projectId, userId, action: 'fixture.create', entity: 'fixture', entityId: row.id, after: shape });
+			return shape;
+		});
+	});
+}
+
+export type FixtureChange = Omit<FixturePatch, 'version'> & { id: number; version: number };
+
+function applyChanges(projectId: number, userId: string, changes: FixtureChange[], many: boolean): FixtureShape[] {
+	const ctx = loadContext(projectId);
+	const rows = db()
+		.select()
+		.from(fixtures)
+		.where(and(eq(fixtures.projectId, projectId), inArray(fixtures.id, changes.map((c) => c.id))))
+		.all();
+	const byId = new Map(rows.map((r) => [r.id, fixtureShape(r)]));
+	const missing = changes.filter((c) => !byId.has(c.id));
+	if (missing.length > 0) throw new ApiError(404, `No such fixture in this project: id ${missing.map((m) => m.id).join(', ')}.`);
+	const stale = changes.filter((c) => byId.get(c.id)!.version !== c.version);
+	if (stale.length > 0) {
+		if (!many) throw new StaleVersionError(byId.get(stale[0].id));
+		throw new ApiError(409, `${stale.length === 1 ? 'A fixture' : `${stale.length} fixtures`} changed since you read them (ids ${stale.map((s) => s.id).join(', ')}); nothing was written.`, {
+			code: 'stale',
+			stale: stale.map((s) => s.id),
+			current: changes.map((c) => byId.get(c.id))
+		});
+	}
+	const merged = changes.map((c) => {
+		const before = byId.get(c.id)!;
+		const { id, version, look, ...fields } = c;
+		void id;
+		void version;
+		return { before, change: c, next: { ...asInput(before), ...fields, look: { ...before.look, ...look } } as FixtureCreate };
+	});
+	// a type change without a mode keeps a mode of the wrong type, which the check reports;
+	// only what the change touches is checked, so legacy rows can still take a state or notes change
+	const issues = merged.flatMap((m, i) =>
+		m.change.control !== undefined || m.change.modeId !== undefined || m.change.typeId !== undefined
+			? check(ctx, m.next, many ? ['fixtures', i] : [], m.before.id)
+			: []
+	);
+	if (issues.length > 0) refuse(issues);
+	numbersClash(
+		ctx,
+		merged.filter((m) => m.change.number !== undefined).map((m) => ({ number: m.next.number, id: m.before.id, path: many ? ['fixtures', changes.indexOf(m.change)] : [] }))
+	);
+	return merged.map(({ before, change, next }) => {
+		// check-and-write in one statement: of two writers holding the same version, exactly one changes the row
+		const row = db()
+			.update(fixtures)
+			.set({ ...columnsOf(next), version: sql`${fixtures.version} + 1`, updatedAt: new Date() })
+			.where(and(eq(fixtures.id, before.id), eq(fixtures.version, change.version)))
+			.returning()
+			.get();
+		if (!row) throw new StaleVersionError(getFixture(projectId, before.id));
+		const after = fixtureShape(row);
+		recordAudit({ projectId, userId, action: 'fixture.update', entity: 'fixture', entityId: before.id, before, after });
+		return after;
+	});
+}
+
+export function updateFixture(projectId: number, userId: string, id: number, patch: FixturePatch): FixtureShape {
+	return db().transaction(() => applyChanges(projectId, userId, [{ ...patch, id }], false)[0]);
+}
+
+/** Many fixtures in one transaction: one stale version refuses the whole batch. */
+export function updateFixtures(projectId: number, userId: string, changes: FixtureChange[]): FixtureShape[] {
+	return db().transaction(() => applyChanges(projectId, userId, changes, true));
+}
+
+/** Refuses while other fixtures follow this one, unless `detach` (they become manual). Returns the photo files to remove. */
+export function deleteFixture(projectId: number, userId: string, id: number, detach: boolean): string[] {
+	return db().transaction(() => {
+		const before = requireFixture(projectId, id);
+		const followers = db().select().from(fixtures).where(and(eq(fixtures.projectId, projectId), eq(fixtures.leaderId, id))).orderBy(asc(fixtures.number)).all();
+		if (followers.length > 0 && !detach) {
+			throw new InUseError(
+				`${followers.length === 1 ? 'Fixture' : 'Fixtures'} ${followers.map((f) => f.number).join(', ')} follow fixture ${before.number}; delete with ?detach=true to set them to manual.`,
+				followers.map((f) => ({ id: f.id, number: f.number, label: f.label }))
+			);
+		}
+		for (const f of followers) detachFixture(projectId, userId, f, `leader ${before.number} deleted`);
+		const files = db().select({ storedName: uploads.storedName }).from(uploads).where(eq(uploads.fixtureId, id)).all();
+		db().delete(fixtures).where(eq(fixtures.id, id)).run();
+		recordAudit({ projectId, userId, action: 'fixture.delete', entity: 'fixture', entityId: id, before });
+		return files.map((f) => f.storedName);
+	});
+}
+
+/**
+ * The engine's first-fit placement into one universe around what is already patched there
+ * (the fixtures being placed do not count as occupying their old slots).
+ */
+export function autopatch(projectId: number, userId: string, input: AutopatchInput): AutoAddressResult & { applied: boolean } {
+	return db().transaction(() => {
+		const patch = loadPatch(projectId);
+		const universe = patch.universes.find((u) => u.id === input.universeId);
+		if (!universe) throw new ApiError(400, 'No such universe in this project.', { issues: [{ path: ['universeId'], message: 'No such universe in this project.' }] });
+		const moving = new Set(input.fixtureIds);
+		const chosen = patch.fixtures.filter((f) => moving.has(f.id));
+		if (chosen.length !== moving.size) {
+			const known = new Set(chosen.map((f) => f.id));
+			const stray = input.fixtureIds.filter((f) => !known.has(f));
+			throw new ApiError(400, `No such fixtures in this project: ${stray.join(', ')}.`, { issues: [{ path: ['fixtureIds'], message: `Unknown ids ${stray.join(', ')}.` }] });
+		}
+		const slotsOf = new Map<number, number>();
+		for (const t of patch.types) for (const m of t.modes) slotsOf.set(m.id, m.slots);
+		const occupied = patch.fixtures
+			.filter((f) => !moving.has(f.id) && (f.control.kind === 'dmx' || f.control.kind === 'dmx-map') && f.control.universeId === input.universeId)
+			.flatMap((f) => f.slots);
+		const result = autoAddress({
+			fixtures: chosen.map((f) => ({ id: f.id, number: f.number, slots: slotsOf.get(f.modeId) ?? 0 })),
+			occupied,
+			start: input.start,
+			align: input.align,
+			gap: input.gap,
+			universeLabel: `universe ${universe.number}`
+		});
+		if (input.apply) {
+			const byId = new Map(chosen.map((f) => [f.id, f]));
+			for (const p of result.placed) {
+				const before = byId.get(p.fixtureId)!;
+				const row = db()
+					.update(fixtures)
+					.set({ ...controlColumns({ kind: 'dmx', universeId: input.universeId, address: p.address }), version: sql`${fixtures.version} + 1`, updatedAt: new Date() })
+					.where(eq(fixtures.id, p.fixtureId))
+					.returning()
+					.get()!;
+				recordAudit({ projectId, userId, action: 'fixture.autopatch', entity: 'fixture', entityId: p.fixtureId, before: { control: before.control, version: before.version }, after: { control: controlOf(row), version: row.version } });
+			}
+		}
+		return { ...result, applied: input.apply };
+	});
+}

@@ -1,0 +1,132 @@
+import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import { ApiError } from '../api';
+import { recordAudit } from './audit';
+import { InUseError, StaleVersionError } from './errors';
+import { db } from './index';
+import { listTypes, type TypeShape } from './patch';
+import { fixtureTypes, fixtures, modeChannels, modes } from './schema';
+import type { ModeInput, TypeCreate, TypePatch } from '../../schemas/type';
+
+export function getType(projectId: number, id: number): TypeShape | undefined {
+	return listTypes(projectId, [id])[0];
+}
+
+function requireRow(projectId: number, id: number) {
+	const row = db().select().from(fixtureTypes).where(and(eq(fixtureTypes.id, id), eq(fixtureTypes.projectId, projectId))).get();
+	if (!row) throw new ApiError(404, 'No such fixture type in this project.');
+	return row;
+}
+
+function writeChannels(modeId: number, mode: ModeInput): void {
+	db().delete(modeChannels).where(eq(modeChannels.modeId, modeId)).run();
+	if (mode.channels.length === 0) return;
+	db()
+		.insert(modeChannels)
+		.values(
+			mode.channels.map((c, position) => ({
+				modeId,
+				position,
+				offset: c.offset,
+				parameter: c.parameter,
+				bits: c.bits,
+				defaultValue: c.default,
+				min: c.min ?? null,
+				max: c.max ?? null,
+				unit: c.unit ?? null
+			}))
+		)
+		.run();
+}
+
+function insertMode(typeId: number, mode: ModeInput, position: number): void {
+	const row = db().insert(modes).values({ typeId, name: mode.name, position }).returning({ id: modes.id }).get();
+	writeChannels(row.id, mode);
+}
+
+function fixturesUsing(column: typeof fixtures.typeId | typeof fixtures.modeId, ids: number[]) {
+	if (ids.length === 0) return [];
+	return db()
+		.select({ id: fixtures.id, number: fixtures.number, label: fixtures.label, modeId: fixtures.modeId })
+		.from(fixtures)
+		.where(inArray(column, ids))
+		.orderBy(asc(fixtures.number))
+		.all();
+}
+
+export function createType(projectId: number, userId: string, input: TypeCreate): TypeShape {
+	return db().transaction(() => {
+		if (input.modes.some((m) => m.id !== undefined)) {
+			throw new ApiError(400, 'A new type has no mode ids yet; leave id out.', { issues: [{ path: ['modes'], message: 'Leave mode ids out on create.' }] });
+		}
+		const row = db().insert(fixtureTypes).values({ projectId, maker: input.maker, model: input.model, notes: input.notes }).returning().get();
+		input.modes.forEach((m, i) => insertMode(row.id, m, i));
+		const shape = getType(projectId, row.id)!;
+		recordAudit({ projectId, userId, action: 'type.create', entity: 'fixture_type', entityId: row.id, after: shape });
+		return shape;
+	});
+}
+
+/**
+ * Modes, when given, replace the type's list. A mode keeps its id (and so its fixtures) when the
+ * body names that id; a mode left out is deleted, which is refused while fixtures use it. A used
+ * mode's channels may change — a longer footprint then shows as an overflow/overlap conflict on
+ * the patch rather than being refused, because the type is shared and the patch is the place to fix it.
+ */
+export function updateType(projectId: number, userId: string, id: number, patch: TypePatch): TypeShape {
+	return db().transaction(() => {
+		requireRow(projectId, id);
+		const before = getType(projectId, id)!;
+		const { version, modes: modeList, ...fields } = patch;
+		if (before.version !== version) throw new StaleVersionError(before);
+		const changed = db()
+			.update(fixtureTypes)
+			.set({ ...fields, version: sql`${fixtureTypes.version} + 1`, updatedAt: new Date() })
+			.where(and(eq(fixtureTypes.id, id), eq(fixtureTypes.version, version)))
+			.run().changes;
+		if (changed !== 1) throw new StaleVersionError(getType(projectId, id));
+		if (modeList) {
+			const existing = new Set(before.modes.map((m) => m.id));
+			const foreign = modeList.filter((m) => m.id !== undefined && !existing.has(m.id));
+			if (foreign.length > 0) {
+				throw new ApiError(400, `Mode ids ${foreign.map((m) => m.id).join(', ')} are not modes of this type.`, {
+					issues: foreign.map((m) => ({ path: ['modes', modeList.indexOf(m), 'id'], message: 'Not a mode of this type.' }))
+				});
+			}
+			const kept = new Set(modeList.map((m) => m.id).filter((m): m is number => m !== undefined));
+			const dropped = before.modes.filter((m) => !kept.has(m.id));
+			const users = fixturesUsing(fixtures.modeId, dropped.map((m) => m.id));
+			if (users.length > 0) {
+				const names = dropped.filter((m) => users.some((u) => u.modeId === m.id)).map((m) => `"${m.name}"`);
+				throw new InUseError(
+					`Mode ${names.join(', ')} is used by fixtures ${users.map((u) => u.number).join(', ')}; change their mode first.`,
+					users.map((u) => ({ id: u.id, number: u.number, label: u.label, modeId: u.modeId }))
+				);
+			}
+			if (dropped.length > 0) db().delete(modes).where(inArray(modes.id, dropped.map((m) => m.id))).run();
+			modeList.forEach((m, position) => {
+				if (m.id === undefined) return insertMode(id, m, position);
+				db().update(modes).set({ name: m.name, position }).where(eq(modes.id, m.id)).run();
+				writeChannels(m.id, m);
+			});
+		}
+		const after = getType(projectId, id)!;
+		recordAudit({ projectId, userId, action: 'type.update', entity: 'fixture_type', entityId: id, before, after });
+		return after;
+	});
+}
+
+export function deleteType(projectId: number, userId: string, id: number): void {
+	db().transaction(() => {
+		requireRow(projectId, id);
+		const before = getType(projectId, id)!;
+		const users = fixturesUsing(fixtures.typeId, [id]);
+		if (users.length > 0) {
+			throw new InUseError(
+				`${before.maker} ${before.model} is used by ${users.length === 1 ? 'fixture' : 'fixtures'} ${users.map((u) => u.number).join(', ')}; change or delete them first.`,
+				users.map((u) => ({ id: u.id, number: u.number, label: u.label }))
+			);
+		}
+		db().delete(fixtureTypes).where(eq(fixtureTypes.id, id)).run();
+		recordAudit({ projectId, userId, action: 'type.delete', entity: 'fixture_type', entityId: id, before });
+	});
+}

@@ -1,0 +1,18 @@
+import { json } from '@sveltejs/kit';
+import { api, readJson } from '$lib/server/api';
+import { requireRole } from '$lib/server/authz';
+import { listReceivers } from '$lib/server/db/patch';
+import { createReceiver } from '$lib/server/db/receivers';
+import { receiverCreate } from '$lib/schemas/receiver';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = api((event) => {
+	const { projectId } = requireRole(event, event.params.pid, 'viewer');
+	return json({ receivers: listReceivers(projectId) });
+});
+
+export const POST: RequestHandler = api(async (event) => {
+	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
+	const input = await readJson(event, receiverCreate);
+	return json(createReceiver(projectId, user.id, input), { status: 201 });
+});

@@ -1,0 +1,62 @@
+import { existsSync, mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { chromium, type Browser as PlaywrightBrowser, type Page } from 'playwright-core';
+
+// Debian's Chromium, headless, with the flags this closed network needs
+// (without the background-networking ones it floods refused connections).
+
+export const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
+const FLAGS = [
+	'--headless',
+	'--no-sandbox',
+	'--disable-gpu',
+	'--disable-quic',
+	'--no-first-run',
+	'--disable-background-networking',
+	'--disable-component-update',
+	'--disable-sync'
+];
+
+export interface Browser {
+	browser: PlaywrightBrowser;
+	/** A page in a context of its own: no cookies shared with other pages. */
+	page(viewport?: { width: number; height: number }, options?: { mobile?: boolean }): Promise<Page>;
+	close(): Promise<void>;
+}
+
+export async function launchBrowser(): Promise<Browser> {
+	if (!existsSync(CHROMIUM)) {
+		throw new Error(
+			`Chromium not found at ${CHROMIUM}. Install Debian's package (apt-get install -y chromium) or set CHROMIUM_PATH. Browser tests never skip.`
+		);
+	}
+	// Playwright gives every launch a fresh temporary user-data dir of its own.
+	const browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS });
+	return {
+		browser,
+		async page(viewport = { width: 1280, height: 800 }, { mobile = false } = {}) {
+			const context = await browser.newContext({ viewport, isMobile: mobile, hasTouch: mobile });
+			const page = await context.newPage();
+			page.once('close', () => void context.close());
+			return page;
+		},
+		close: () => browser.close()
+	};
+}
+
+/** Signs in through the /signin form, as a person would. */
+export async function signInPage(page: Page, base: string, email: string, password = 'patchwright-demo'): Promise<void> {
+	await page.goto(`${base}/signin`);
+	await page.getByLabel('E-mail', { exact: true }).fill(email);
+	await page.getByLabel('Password').fill(password);
+	await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+	await page.waitForURL((url) => !url.pathname.startsWith('/signin') && !url.pathname.startsWith('/auth'));
+}
+
+export async function screenshot(page: Page, name: string): Promise<string> {
+	const dir = join('test-results', 'screenshots');
+	mkdirSync(dir, { recursive: true });
+	const path = join(dir, `${name}.png`);
+	await page.screenshot({ path, fullPage: true });
+	return path;
+}
