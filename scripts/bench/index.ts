@@ -1,6 +1,7 @@
 // Registry of bench modules; add yours here. A module that needs a built server should say so
 // from skip() instead of failing, so `tsx scripts/bench.ts engine` runs without one.
 import { engine } from './engine';
+import { table } from './table';
 import type { BenchModule } from './harness';
 
-export const modules: BenchModule[] = [engine];
+export const modules: BenchModule[] = [engine, table];
