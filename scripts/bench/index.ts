@@ -4,6 +4,7 @@ import { api } from './api';
 import { engine } from './engine';
 import { load } from './load';
 import { pdf } from './pdf';
+import { table } from './table';
 import type { BenchModule } from './harness';
 
-export const modules: BenchModule[] = [engine, api, pdf, load];
+export const modules: BenchModule[] = [engine, api, pdf, table, load];

@@ -1,0 +1,19 @@
+import type { Page } from 'playwright-core';
+import { launchBrowser, screenshot, signInPage, type Browser } from './launch';
+
+// The table pages' browser helpers, on top of the shared Chromium launcher
+// (launch.ts: Debian Chromium, fails with the install command when missing).
+
+export { screenshot, type Browser };
+export const launch = launchBrowser;
+
+export function newPage(b: Browser, width = 1366, height = 900, mobile = false): Promise<Page> {
+	return b.page({ width, height }, { mobile });
+}
+
+export const signIn = signInPage;
+
+/** Waits until the windowed patch table has drawn its first rows. */
+export async function patchRows(page: Page): Promise<void> {
+	await page.locator('[data-row]').first().waitFor({ timeout: 15_000 });
+}
