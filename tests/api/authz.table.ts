@@ -122,6 +122,12 @@ export const ROUTES: Row[] = [
 	row('GET',    '/api/projects/[pid]/sheets/patch.pdf',               [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/sheets/labels.pdf',              [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/sheets/radio.pdf',               [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/export.csv',                     [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/export.json',                    [200, 200, 200, 200, 404, 401, 401]),
+	// a preview (no apply): 200 with what it would change, nothing written
+	row('POST',   '/api/projects/[pid]/import',                         [200, 200, 403, 403, 404, 401, 401], () => ({ form: () => csvForm('number,universe,address\n1,1,100\n') })),
+	// any signed-in person restores an export into a new project of their own
+	row('POST',   '/api/projects/import-json',                          [201, 201, 201, 201, 201, 401, 401], async (c) => ({ body: await (await c.owner.get(`/api/projects/${c.pid}/export.json`)).json() })),
 	// authorised by the token in the path, whoever holds it
 	row('GET',    '/api/review/[token]',                                [200, 200, 200, 200, 200, 200, 200]),
 	row('POST',   '/api/review/[token]/signoff',                        [201, 201, 201, 201, 201, 201, 201], () => ({ body: { name: 'Probe Producer', decision: 'approved', comment: '' } })),
@@ -141,7 +147,14 @@ export const PAGES: Row[] = [
 	row('GET',  '/projects/[id]',                                       [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',  '/projects/[id]/members',                               [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',  '/projects/[id]/revisions',                             [200, 200, 200, 200, 404, 401, 401]),
-	row('GET',  '/review/[token]',                                      [200, 200, 200, 200, 200, 200, 200])
+	row('GET',  '/review/[token]',                                      [200, 200, 200, 200, 200, 200, 200]),
+	row('GET',  '/projects/[id]/patch',                                 [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',  '/projects/[id]/universes',                             [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',  '/projects/[id]/universes/[n]',                         [200, 200, 200, 200, 404, 401, 401], () => ({ params: { n: 1 } })),
+	row('GET',  '/projects/[id]/types',                                 [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',  '/projects/[id]/radio',                                 [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',  '/projects/[id]/fixtures/[n]',                          [200, 200, 200, 200, 404, 401, 401], () => ({ params: { n: 1 } })),
+	row('GET',  '/projects/[id]/import',                                [200, 200, 200, 200, 404, 401, 401])
 ];
 
 export const TYPE_BODY = {
@@ -158,6 +171,12 @@ export function pngBytes(): Buffer {
 	const png = new PNG({ width: 1, height: 1 });
 	png.data.set([255, 128, 0, 255]);
 	return PNG.sync.write(png);
+}
+
+export function csvForm(text: string): FormData {
+	const form = new FormData();
+	form.set('file', new Blob([text], { type: 'text/csv' }), 'patch.csv');
+	return form;
 }
 
 export function photoForm(): FormData {

@@ -133,7 +133,8 @@ describe('fuzzed bodies never crash the server and refusals write nothing', () =
 		const req = await row.build(ctx);
 		if (req.form) {
 			// multipart: random bytes as the "photo" must be refused as a type, never crash
-			const path = row.route.replace('[pid]', String(ctx.pid)).replace('[id]', String(req.params!.id));
+			const formParams: Record<string, string | number> = { pid: ctx.pid, ...req.params };
+			const path = row.route.replace(/\[(\w+)\]/g, (_, n: string) => String(formParams[n]));
 			await fc.assert(
 				fc.asyncProperty(fc.uint8Array({ maxLength: 4096 }), fc.oneof(unicode, fc.constant('__proto__')), async (bytes, field) => {
 					const before = fingerprint(server.db(), ctx.pid);
@@ -165,7 +166,9 @@ describe('fuzzed bodies never crash the server and refusals write nothing', () =
 		);
 		runCounts[name] = RUNS;
 		// most mutations must be refused as bad input (400), not slip through
-		expect((statuses.get(400) ?? 0) + (statuses.get(403) ?? 0) + (statuses.get(413) ?? 0)).toBeGreaterThan(RUNS / 3);
+		// (422: an import whose rows are refused, DESIGN "Imports")
+		const refused = [400, 403, 413, 422].reduce((n, s) => n + (statuses.get(s) ?? 0), 0);
+		expect(refused, `statuses: ${JSON.stringify([...statuses])}`).toBeGreaterThan(RUNS / 3);
 	}, 120_000); // each run dumps the project for its before/after check; slow on a busy two-core machine
 });
 
