@@ -37,7 +37,8 @@ export async function launchBrowser(): Promise<Browser> {
 		async page(viewport = { width: 1280, height: 800 }, { mobile = false } = {}) {
 			const context = await browser.newContext({ viewport, isMobile: mobile, hasTouch: mobile });
 			const page = await context.newPage();
-			page.once('close', () => void context.close());
+			// the browser may already be closing the context itself; that is not a failure
+			page.once('close', () => void context.close().catch(() => undefined));
 			return page;
 		},
 		close: () => browser.close()

@@ -311,7 +311,14 @@ export function computeFor(
 // rolled-back ones included, which only costs a recompute), and data_version moves whenever
 // another connection (a script, a test factory, a second process) commits.
 
-const patchCache = new Map<number, { key: string; data: PatchData }>();
+interface CacheEntry {
+	key: string;
+	data: PatchData;
+	/** the same patch as the JSON the API sends, made on first ask */
+	json?: string;
+}
+
+const patchCache = new Map<number, CacheEntry>();
 const MAX_CACHED_PROJECTS = 16;
 let counter: { client: unknown; stmt: { get(): unknown } } | undefined;
 
@@ -321,16 +328,27 @@ function changeKey(): string {
 	return `${String(client.pragma('data_version', { simple: true }))}:${String(counter.stmt.get())}`;
 }
 
-/** loadPatch, reused while nothing has been written. Treat the answer as read-only: it is shared. */
-export function loadPatchCached(projectId: number): PatchData {
-	// inside a transaction the rows may be uncommitted and may yet roll back: never cache those
-	if (db().$client.inTransaction) return patchCache.get(projectId)?.key === changeKey() ? patchCache.get(projectId)!.data : loadPatch(projectId);
+function cacheEntry(projectId: number): CacheEntry {
 	const key = changeKey();
 	const hit = patchCache.get(projectId);
-	if (hit?.key === key) return hit.data;
-	const data = loadPatch(projectId);
+	if (hit?.key === key) return hit;
+	const entry: CacheEntry = { key, data: loadPatch(projectId) };
+	// inside a transaction the rows may be uncommitted and may yet roll back: never keep those
+	if (db().$client.inTransaction) return entry;
 	patchCache.delete(projectId);
-	patchCache.set(projectId, { key, data });
+	patchCache.set(projectId, entry);
 	if (patchCache.size > MAX_CACHED_PROJECTS) patchCache.delete(patchCache.keys().next().value!);
-	return data;
+	return entry;
+}
+
+/** loadPatch, reused while nothing has been written. Treat the answer as read-only: it is shared. */
+export function loadPatchCached(projectId: number): PatchData {
+	return cacheEntry(projectId).data;
+}
+
+/** The patch as JSON text, serialised once per change: a 20,000-fixture patch is megabytes of it. */
+export function patchJsonCached(projectId: number): string {
+	const entry = cacheEntry(projectId);
+	entry.json ??= JSON.stringify(entry.data);
+	return entry.json;
 }

@@ -1,12 +1,11 @@
-import { json } from '@sveltejs/kit';
 import { api } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
-import { loadPatchCached } from '$lib/server/db/patch';
+import { patchJsonCached } from '$lib/server/db/patch';
 import type { RequestHandler } from './$types';
 
 // The whole patch: universes with their numbers and refresh, types, receivers,
 // fixtures with computed slots, and every conflict.
 export const GET: RequestHandler = api((event) => {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	return json(loadPatchCached(projectId));
+	return new Response(patchJsonCached(projectId), { headers: { 'content-type': 'application/json' } });
 });
