@@ -1,5 +1,6 @@
 import { isHttpError, isRedirect, json, type RequestEvent } from '@sveltejs/kit';
 import { z, ZodError } from 'zod';
+import { readCapped } from './body';
 import { InUseError, StaleVersionError } from './db/errors';
 
 // The JSON API's edges: one error shape, one body reader with a size limit,
@@ -60,29 +61,6 @@ export function zodIssues(err: ZodError): ApiIssue[] {
 }
 
 /** The raw body, refusing (413) past `limit` bytes without reading the rest. */
-export async function readLimitedBytes(request: Request, limit: number): Promise<Buffer> {
-	const declared = Number(request.headers.get('content-length') ?? 0);
-	if (declared > limit) throw new ApiError(413, `The request body is over ${limit} bytes.`);
-	if (!request.body) return Buffer.alloc(0);
-	const reader = request.body.getReader();
-	const chunks: Uint8Array[] = [];
-	let size = 0;
-	for (;;) {
-		const { done, value } = await reader.read();
-		if (done) break;
-		size += value.byteLength;
-		if (size > limit) {
-			await reader.cancel();
-			throw new ApiError(413, `The request body is over ${limit} bytes.`);
-		}
-		chunks.push(value);
-	}
-	return Buffer.concat(chunks);
-}
-
-async function readLimited(request: Request, limit: number): Promise<string> {
-	return (await readLimitedBytes(request, limit)).toString('utf8');
-}
 
 /** Reads a JSON body (≤ 1 MB) and validates it; bad input answers 400 before anything is written. */
 export async function readJson<S extends z.ZodType>(
@@ -93,7 +71,7 @@ export async function readJson<S extends z.ZodType>(
 	if (!type.includes('application/json')) {
 		throw new ApiError(415, 'Send JSON with Content-Type: application/json.');
 	}
-	const text = await readLimited(event.request, MAX_JSON_BYTES);
+	const text = Buffer.from(await readCapped(event.request, MAX_JSON_BYTES)).toString('utf8');
 	let body: unknown;
 	try {
 		body = JSON.parse(text);
