@@ -1,24 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type TestServer } from '../helpers/server';
+import { describe, expect, it } from 'vitest';
 import { DEMO_USERS } from '../../src/lib/server/demo';
-import { launchBrowser, screenshot, signInPage, type Browser } from './launch';
+import { demoStage, screenshot, signInPage } from './launch';
 
-let server: TestServer;
-let browser: Browser;
+const stage = demoStage();
 
-beforeAll(async () => {
-	server = await startServer({ demo: true });
-	browser = await launchBrowser();
-});
-afterAll(async () => {
-	await browser?.close();
-	await server?.stop();
-});
 
 describe('signing in through the pages (Chromium)', () => {
 	it.each(DEMO_USERS.map((u) => [u.role, u.email]))('the demo %s signs in and sees the demo project', async (role, email) => {
-		const page = await browser.page();
-		await signInPage(page, server.url, email);
+		const page = await stage.browser.page();
+		await signInPage(page, stage.server.url, email);
 		await expect.poll(() => page.getByTestId('signed-in-as').textContent()).toBe(email);
 		const card = page.getByTestId('project-list').getByRole('link');
 		await expect.poll(() => card.count()).toBe(1);
@@ -28,8 +18,8 @@ describe('signing in through the pages (Chromium)', () => {
 	});
 
 	it('a wrong password shows a clear error and stays signed out', async () => {
-		const page = await browser.page();
-		await page.goto(`${server.url}/signin`);
+		const page = await stage.browser.page();
+		await page.goto(`${stage.server.url}/signin`);
 		await page.getByLabel('E-mail', { exact: true }).fill('owner@demo.test');
 		await page.getByLabel('Password').fill('wrong password');
 		await page.getByRole('button', { name: 'Sign in', exact: true }).click();
@@ -40,8 +30,8 @@ describe('signing in through the pages (Chromium)', () => {
 	});
 
 	it('a new person signs up, then signs in, then creates a project they own', async () => {
-		const page = await browser.page({ width: 390, height: 844 });
-		await page.goto(`${server.url}/signup`);
+		const page = await stage.browser.page({ width: 390, height: 844 });
+		await page.goto(`${stage.server.url}/signup`);
 		await page.getByLabel('Your name').fill('Bo Bestboy');
 		await page.getByLabel('E-mail').fill('bo@crew.test');
 		await page.getByLabel('Password').fill('rigging all night');
@@ -49,7 +39,7 @@ describe('signing in through the pages (Chromium)', () => {
 		await page.waitForURL(/registered=1/);
 		await page.getByLabel('Password').fill('rigging all night');
 		await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-		await page.waitForURL(`${server.url}/`);
+		await page.waitForURL(`${stage.server.url}/`);
 		await page.getByRole('button', { name: 'New project' }).click();
 		await page.getByLabel('Name').fill('Night shoot, car rig');
 		await page.getByRole('button', { name: 'Create project' }).click();
@@ -60,11 +50,11 @@ describe('signing in through the pages (Chromium)', () => {
 	});
 
 	it('signing out returns to the sign-in page and project pages then need a sign-in', async () => {
-		const page = await browser.page();
-		await signInPage(page, server.url, 'viewer@demo.test');
+		const page = await stage.browser.page();
+		await signInPage(page, stage.server.url, 'viewer@demo.test');
 		await page.getByRole('button', { name: 'Sign out' }).click();
 		await page.waitForURL(/\/signin/);
-		const res = await page.goto(`${server.url}/projects/1`);
+		const res = await page.goto(`${stage.server.url}/projects/1`);
 		expect(res?.status()).toBe(401);
 		await page.close();
 	});

@@ -1,11 +1,10 @@
 import type { Page } from 'playwright-core';
-import { launchBrowser, screenshot, signInPage, type Browser } from './launch';
+import { screenshot, signInPage, type Browser } from './launch';
 
 // The table pages' browser helpers, on top of the shared Chromium launcher
 // (launch.ts: Debian Chromium, fails with the install command when missing).
 
 export { screenshot, type Browser };
-export const launch = launchBrowser;
 
 export function newPage(b: Browser, width = 1366, height = 900, mobile = false): Promise<Page> {
 	return b.page({ width, height }, { mobile });

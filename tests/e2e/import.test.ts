@@ -1,24 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type TestServer } from '../helpers/server';
+import { describe, expect, it } from 'vitest';
 import { gdtfZip } from '../helpers/gdtf';
-import { launchBrowser, screenshot, signInPage, type Browser } from './launch';
+import { demoStage, screenshot, signInPage } from './launch';
 
-let server: TestServer;
-let browser: Browser;
+const stage = demoStage();
 
-beforeAll(async () => {
-	server = await startServer({ demo: true });
-	browser = await launchBrowser();
-});
-afterAll(async () => {
-	await browser?.close();
-	await server?.stop();
-});
 
 describe('the import / export page (Chromium)', () => {
 	it('a programmer previews a GDTF type, applies it, and sees a bad CSV row named', async () => {
-		const page = await browser.page();
-		await signInPage(page, server.url, 'programmer@demo.test');
+		const page = await stage.browser.page();
+		await signInPage(page, stage.server.url, 'programmer@demo.test');
 		await page.getByTestId('project-list').getByRole('link').first().click();
 		await page.getByRole('link', { name: 'Import / export' }).click();
 		await page.waitForURL(/\/import$/);

@@ -1,6 +1,8 @@
 import { existsSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { chromium, type Browser as PlaywrightBrowser, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
+import { startServer, type TestServer } from '../helpers/server';
 
 // Debian's Chromium, headless, with the flags this closed network needs
 // (without the background-networking ones it floods refused connections).
@@ -60,4 +62,28 @@ export async function screenshot(page: Page, name: string): Promise<string> {
 	const path = join(dir, `${name}.png`);
 	await page.screenshot({ path, fullPage: true });
 	return path;
+}
+
+/** The demo served and a browser launched for a whole test file, both stopped after it. */
+export function demoStage(): { readonly server: TestServer; readonly browser: Browser } {
+	let server: TestServer | undefined;
+	let browser: Browser | undefined;
+	beforeAll(async () => {
+		server = await startServer({ demo: true });
+		browser = await launchBrowser();
+	});
+	afterAll(async () => {
+		await browser?.close();
+		await server?.stop();
+	});
+	return {
+		get server() {
+			if (!server) throw new Error('the demo server is not started yet');
+			return server;
+		},
+		get browser() {
+			if (!browser) throw new Error('the browser is not launched yet');
+			return browser;
+		}
+	};
 }

@@ -1,37 +1,30 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { demoProjectId } from '../helpers/revisions';
-import { startServer, type TestServer } from '../helpers/server';
-import { launch, newPage, patchRows, screenshot, signIn, type Browser } from './helpers';
+import { newPage, patchRows, screenshot, signIn } from './helpers';
+import { demoStage } from './launch';
 
 // The table-centred client, one story per role (DESIGN.md "Roles", "Pages").
 
-let server: TestServer;
-let browser: Browser;
+const stage = demoStage();
 let pid: number;
 
-beforeAll(async () => {
-	server = await startServer({ demo: true });
-	browser = await launch();
-	pid = demoProjectId(server.db());
-});
-afterAll(async () => {
-	await browser?.close();
-	await server?.stop();
+beforeAll(() => {
+	pid = demoProjectId(stage.server.db());
 });
 
 describe('patch pages in the browser', () => {
 	it('a programmer creates a universe, adds overlapping fixtures, sees the overlap on the row and the map, and fixes it with auto-address', async () => {
-		const page = await newPage(browser);
-		await signIn(page, server.url, 'programmer@demo.test');
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'programmer@demo.test');
 
-		await page.goto(`${server.url}/projects/${pid}/universes`);
+		await page.goto(`${stage.server.url}/projects/${pid}/universes`);
 		await page.getByLabel('Number').fill('9');
 		await page.getByLabel('Name').fill('Test barge');
 		await page.getByRole('button', { name: 'Add universe' }).click();
 		await page.getByRole('link', { name: /^9 Test barge/ }).waitFor();
 		await screenshot(page, 'universes-index');
 
-		await page.goto(`${server.url}/projects/${pid}/patch`);
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
 		await patchRows(page);
 		// the table is windowed: show only the new universe so new rows are drawn
 		await page.getByRole('search').getByLabel('Universe').selectOption({ label: '9 Test barge' });
@@ -59,12 +52,12 @@ describe('patch pages in the browser', () => {
 		expect(await page.locator('[data-conflict-list]').textContent()).toMatch(/overlap.*slots 3–4 of universe 9/);
 		await screenshot(page, 'patch-overlap');
 
-		await page.goto(`${server.url}/projects/${pid}/universes/9`);
+		await page.goto(`${stage.server.url}/projects/${pid}/universes/9`);
 		expect(await page.locator('[data-overlap]').count()).toBe(2);
 		expect(await page.locator('[data-slot="3"]').getAttribute('aria-label')).toMatch(/OVERLAP/);
 		await screenshot(page, 'universe-overlap');
 
-		await page.goto(`${server.url}/projects/${pid}/patch`);
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
 		await patchRows(page);
 		await page.getByRole('search').getByLabel('Universe').selectOption({ label: '9 Test barge' });
 		await expect.poll(() => page.locator('[data-row]').count()).toBe(2);
@@ -84,14 +77,14 @@ describe('patch pages in the browser', () => {
 		await expect.poll(() => conflictCells.nth(1).textContent()).toBe('');
 		expect(await page.locator('[data-row]', { hasText: 'BARGE B' }).locator('[data-col="control"]').textContent()).toContain('9.5');
 
-		await page.goto(`${server.url}/projects/${pid}/universes/9`);
+		await page.goto(`${stage.server.url}/projects/${pid}/universes/9`);
 		expect(await page.locator('[data-overlap]').count()).toBe(0);
 	});
 
 	it('an electrician on a phone marks a fixture addressed and the table shows it', async () => {
-		const page = await newPage(browser, 390, 844, true);
-		await signIn(page, server.url, 'electrician@demo.test');
-		await page.goto(`${server.url}/projects/${pid}/fixtures/106`);
+		const page = await newPage(stage.browser, 390, 844, true);
+		await signIn(page, stage.server.url, 'electrician@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/fixtures/106`);
 		expect(await page.locator('[data-state]').textContent()).toContain('planned');
 		expect(await page.locator('[data-address]').textContent()).toBe('41');
 		const button = page.getByRole('button', { name: 'addressed' });
@@ -101,7 +94,7 @@ describe('patch pages in the browser', () => {
 		await page.locator('[data-state="addressed"]').waitFor();
 		await screenshot(page, 'fixture-phone');
 		// no editing of the patch itself for an electrician
-		await page.goto(`${server.url}/projects/${pid}/patch`);
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
 		await patchRows(page);
 		expect(await page.getByText('Add fixtures').count()).toBe(0);
 		await page.getByLabel('Search').fill('WHEEL 6');
@@ -111,19 +104,19 @@ describe('patch pages in the browser', () => {
 	});
 
 	it('a viewer sees no edit controls, and an edit through the API is refused', async () => {
-		const page = await newPage(browser);
-		await signIn(page, server.url, 'viewer@demo.test');
-		await page.goto(`${server.url}/projects/${pid}/patch`);
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'viewer@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
 		await patchRows(page);
 		expect(await page.locator('[data-row] input[type=checkbox]').count()).toBe(0);
 		expect(await page.getByText('Add fixtures').count()).toBe(0);
-		await page.goto(`${server.url}/projects/${pid}/fixtures/101`);
+		await page.goto(`${stage.server.url}/projects/${pid}/fixtures/101`);
 		expect(await page.getByRole('button', { name: 'checked' }).count()).toBe(0);
 		expect(await page.getByRole('button', { name: 'Upload photo' }).count()).toBe(0);
-		await page.goto(`${server.url}/projects/${pid}/types`);
+		await page.goto(`${stage.server.url}/projects/${pid}/types`);
 		expect(await page.getByText('Add a fixture type').count()).toBe(0);
 
-		const viewer = await server.signIn('viewer@demo.test');
+		const viewer = await stage.server.signIn('viewer@demo.test');
 		const patch = (await (await viewer.get(`/api/projects/${pid}/patch`)).json()) as { fixtures: { id: number; number: number; version: number }[] };
 		const f = patch.fixtures.find((x) => x.number === 101)!;
 		const res = await viewer.patch(`/api/projects/${pid}/fixtures/${f.id}`, { state: 'fault', version: f.version });
@@ -131,8 +124,8 @@ describe('patch pages in the browser', () => {
 	});
 
 	it('every page renders: screenshots for review', async () => {
-		const page = await newPage(browser);
-		await signIn(page, server.url, 'programmer@demo.test');
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'programmer@demo.test');
 		for (const [path, name] of [
 			['', 'overview'],
 			['/patch', 'patch'],
@@ -141,18 +134,18 @@ describe('patch pages in the browser', () => {
 			['/types', 'types'],
 			['/fixtures/101', 'fixture']
 		]) {
-			await page.goto(`${server.url}/projects/${pid}${path}`);
+			await page.goto(`${stage.server.url}/projects/${pid}${path}`);
 			if (path === '/patch') await patchRows(page);
 			expect(await page.locator('h1').first().textContent()).toBeTruthy();
 			await screenshot(page, `page-${name}`);
 		}
-		const phone = await newPage(browser, 360, 780, true);
-		await signIn(phone, server.url, 'programmer@demo.test');
+		const phone = await newPage(stage.browser, 360, 780, true);
+		await signIn(phone, stage.server.url, 'programmer@demo.test');
 		for (const [path, name] of [
 			['/universes/3', 'universe-map-360'],
 			['/types', 'types-360']
 		]) {
-			await phone.goto(`${server.url}/projects/${pid}${path}`);
+			await phone.goto(`${stage.server.url}/projects/${pid}${path}`);
 			const overflow = await phone.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
 			expect(overflow).toBeLessThanOrEqual(0); // works at 360 px wide
 			await screenshot(phone, `page-${name}`);

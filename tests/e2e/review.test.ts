@@ -1,28 +1,18 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { demoProjectId } from '../helpers/revisions';
-import { startServer, type TestServer } from '../helpers/server';
-import { launchBrowser, screenshot, signInPage, type Browser } from './launch';
+import { demoStage, screenshot, signInPage } from './launch';
 
 // The sign-off story from DESIGN.md "The job": the producer approves by opening a link on a phone.
 
-let server: TestServer;
-let browser: Browser;
+const stage = demoStage();
 
-beforeAll(async () => {
-	server = await startServer({ demo: true });
-	browser = await launchBrowser();
-});
-afterAll(async () => {
-	await browser?.close();
-	await server?.stop();
-});
 
 describe('revision, review link and sign-off in the browser', () => {
 	it('a programmer makes a revision and a link, the producer approves on a phone without an account, the programmer sees it', async () => {
-		const pid = demoProjectId(server.db());
-		const page = await browser.page();
-		await signInPage(page, server.url, 'programmer@demo.test');
-		await page.goto(`${server.url}/projects/${pid}/revisions`);
+		const pid = demoProjectId(stage.server.db());
+		const page = await stage.browser.page();
+		await signInPage(page, stage.server.url, 'programmer@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/revisions`);
 		await page.fill('#note', 'For the producer');
 		await page.click('button:has-text("Make revision")');
 		await page.locator('[data-testid="revision-1"]').waitFor();
@@ -33,11 +23,11 @@ describe('revision, review link and sign-off in the browser', () => {
 		const urlBox = page.locator('[data-testid="review-url"]');
 		await urlBox.waitFor();
 		const reviewUrl = await urlBox.inputValue();
-		expect(reviewUrl).toMatch(new RegExp(`^${server.url}/review/[A-Za-z0-9_-]{43}$`));
+		expect(reviewUrl).toMatch(new RegExp(`^${stage.server.url}/review/[A-Za-z0-9_-]{43}$`));
 		await screenshot(page, 'review-link-made');
 
 		// a context of its own: the producer has no session
-		const mobile = await browser.page({ width: 390, height: 844 }, { mobile: true });
+		const mobile = await stage.browser.page({ width: 390, height: 844 }, { mobile: true });
 		await mobile.goto(reviewUrl);
 		expect(await mobile.locator('h1').textContent()).toBe('The Lantern Ferry — river unit');
 		expect(await mobile.locator('[data-testid="review-revision"] h2').textContent()).toBe('Revision 1');
@@ -65,14 +55,14 @@ describe('revision, review link and sign-off in the browser', () => {
 		expect(await mobile.locator('[data-testid="review-revision"]').textContent()).toContain('by Pat Producer');
 		await screenshot(mobile, 'review-approved-phone');
 
-		await page.goto(`${server.url}/projects/${pid}/revisions`);
+		await page.goto(`${stage.server.url}/projects/${pid}/revisions`);
 		const signoffs = await page.locator('[data-testid="revision-1"] [data-testid="signoffs"]').textContent();
 		expect(signoffs).toContain('Approved');
 		expect(signoffs).toContain('Pat Producer');
 		expect(signoffs).toContain('Looks right for night one');
 		await screenshot(page, 'revisions-approved');
 
-		await page.goto(`${server.url}/projects/${pid}`);
+		await page.goto(`${stage.server.url}/projects/${pid}`);
 		const badge = page.locator('[data-testid="signoff-badge"]');
 		await badge.locator('text=Pat Producer').waitFor();
 		expect(await badge.textContent()).toContain('Approved');
