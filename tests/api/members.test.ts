@@ -57,8 +57,10 @@ describe('requireRole on project routes', () => {
 		expect((await after.json()).name).toBe(crew.project.name);
 	});
 
-	it('a project page load refuses the same way (401, 404)', async () => {
-		expect((await server.anonymous().get(`/projects/${crew.project.id}`)).status).toBe(401);
+	it('a project page sends the signed-out to sign in and back, and refuses a non-member with 404', async () => {
+		const signedOut = await server.anonymous().get(`/projects/${crew.project.id}/fixtures/7?from=label`);
+		expect(signedOut.status).toBe(303);
+		expect(signedOut.headers.get('location')).toBe(`/signin?callbackUrl=${encodeURIComponent(`/projects/${crew.project.id}/fixtures/7?from=label`)}`);
 		expect((await (await as('outsider')).get(`/projects/${crew.project.id}`)).status).toBe(404);
 		expect((await (await as('viewer')).get(`/projects/${crew.project.id}`)).status).toBe(200);
 	});

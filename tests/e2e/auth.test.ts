@@ -54,8 +54,20 @@ describe('signing in through the pages (Chromium)', () => {
 		await signInPage(page, stage.server.url, 'viewer@demo.test');
 		await page.getByRole('button', { name: 'Sign out' }).click();
 		await page.waitForURL(/\/signin/);
-		const res = await page.goto(`${stage.server.url}/projects/1`);
-		expect(res?.status()).toBe(401);
+		await page.goto(`${stage.server.url}/projects/1`);
+		expect(new URL(page.url()).pathname).toBe('/signin');
+		await page.close();
+	});
+
+	it('a fixture page opened from its label while signed out signs in and lands back on that fixture', async () => {
+		const page = await stage.browser.page({ width: 390, height: 844 }, { mobile: true });
+		await page.goto(`${stage.server.url}/projects/1/fixtures/106`);
+		await page.waitForURL(/\/signin\?callbackUrl=/);
+		await page.getByLabel('E-mail', { exact: true }).fill('electrician@demo.test');
+		await page.getByLabel('Password').fill('patchwright-demo');
+		await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+		await page.waitForURL(`${stage.server.url}/projects/1/fixtures/106`);
+		expect(await page.getByRole('heading', { level: 1 }).textContent()).toContain('106');
 		await page.close();
 	});
 });
