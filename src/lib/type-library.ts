@@ -1,17 +1,9 @@
-import type { Bits } from '$lib/patch';
+import type { Bits, ModeChannel } from '$lib/patch';
 
 // Generic starting points for a new fixture type: common channel layouts,
 // no maker's names. The programmer edits them to match the unit's manual.
 
-export interface LibraryChannel {
-	offset: number | null;
-	parameter: string;
-	bits: Bits;
-	default: number;
-	min?: number;
-	max?: number;
-	unit?: string;
-}
+export type LibraryChannel = ModeChannel;
 export interface LibraryType {
 	key: string;
 	maker: string;

@@ -1,8 +1,8 @@
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeCrew, PASSWORD } from '../helpers/factories';
+import { makeCrew, signInCrew } from '../helpers/factories';
 import { channels, makeFixture, makeReceiver, makeType, makeUniverse } from '../helpers/patch-factories';
-import { startServer, type Client, type TestServer } from '../helpers/server';
+import { startServer, type TestServer } from '../helpers/server';
 import { auditLog, fixtures } from '../../src/lib/server/db/schema';
 
 // Fixtures through the JSON API: validation that needs the database, roles (electricians set
@@ -12,7 +12,7 @@ import { auditLog, fixtures } from '../../src/lib/server/db/schema';
 let server: TestServer;
 let pid: number;
 let otherPid: number;
-const as: Record<'programmer' | 'electrician' | 'viewer' | 'outsider', Client> = {} as never;
+let as: Awaited<ReturnType<typeof signInCrew>>;
 let uni: number;
 let otherUni: number;
 let type: ReturnType<typeof makeType>;
@@ -24,8 +24,7 @@ beforeAll(async () => {
 	const db = server.db();
 	const { project, crew, outsider } = await makeCrew(db);
 	pid = project.id;
-	for (const role of ['programmer', 'electrician', 'viewer'] as const) as[role] = await server.signIn(crew[role].email, PASSWORD);
-	as.outsider = await server.signIn(outsider.email, PASSWORD);
+	as = await signInCrew(server, crew, outsider);
 	otherPid = (await makeCrew(db)).project.id;
 	uni = makeUniverse(db, pid, 1).id;
 	otherUni = makeUniverse(db, otherPid, 1).id;

@@ -3,7 +3,7 @@ import Papa from 'papaparse';
 import { eq } from 'drizzle-orm';
 import { request } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeCrew, PASSWORD } from '../helpers/factories';
+import { makeCrew, signInCrew } from '../helpers/factories';
 import { gdtfZip, PANEL_XML, zeroBomb } from '../helpers/gdtf';
 import { normaliseExport } from '../helpers/project-json';
 import { startServer, type Client, type TestServer } from '../helpers/server';
@@ -14,14 +14,13 @@ import { fixtureTypes, fixtures, universes } from '../../src/lib/server/db/schem
 
 let server: TestServer;
 let pid: number;
-const as: Record<'owner' | 'programmer' | 'viewer' | 'outsider', Client> = {} as never;
+let as: Awaited<ReturnType<typeof signInCrew>>;
 
 beforeAll(async () => {
 	server = await startServer();
 	const { project, crew, outsider } = await makeCrew(server.db());
 	pid = project.id;
-	for (const role of ['owner', 'programmer', 'viewer'] as const) as[role] = await server.signIn(crew[role].email, PASSWORD);
-	as.outsider = await server.signIn(outsider.email, PASSWORD);
+	as = await signInCrew(server, crew, outsider);
 });
 afterAll(() => server?.stop());
 

@@ -2,7 +2,7 @@ import { existsSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { eq } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeCrew, PASSWORD } from '../helpers/factories';
+import { makeCrew, signInCrew } from '../helpers/factories';
 import { channels, makeFixture, makeReceiver, makeType } from '../helpers/patch-factories';
 import { startServer, type Client, type TestServer } from '../helpers/server';
 import { fixtures, uploads } from '../../src/lib/server/db/schema';
@@ -13,15 +13,14 @@ import { fixtures, uploads } from '../../src/lib/server/db/schema';
 let server: TestServer;
 let pid: number;
 let fixtureId: number;
-const as: Record<'programmer' | 'electrician' | 'viewer' | 'outsider', Client> = {} as never;
+let as: Awaited<ReturnType<typeof signInCrew>>;
 
 beforeAll(async () => {
 	server = await startServer();
 	const db = server.db();
 	const { project, crew, outsider } = await makeCrew(db);
 	pid = project.id;
-	for (const role of ['programmer', 'electrician', 'viewer'] as const) as[role] = await server.signIn(crew[role].email, PASSWORD);
-	as.outsider = await server.signIn(outsider.email, PASSWORD);
+	as = await signInCrew(server, crew, outsider);
 	const t = makeType(db, pid, { m: channels(1) });
 	fixtureId = makeFixture(db, { projectId: pid, number: 1, typeId: t.type.id, modeId: t.modeIds.m }).id;
 });

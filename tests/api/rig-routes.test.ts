@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { makeCrew, PASSWORD } from '../helpers/factories';
+import { makeCrew, signInCrew } from '../helpers/factories';
 import { channels, makeFixture, makeReceiver, makeType, makeUniverse } from '../helpers/patch-factories';
-import { startServer, type Client, type TestServer } from '../helpers/server';
+import { startServer, type TestServer } from '../helpers/server';
 import { auditLog } from '../../src/lib/server/db/schema';
 
 // Universes, fixture types and receivers through the JSON API (DESIGN.md "JSON API"):
@@ -10,14 +10,13 @@ import { auditLog } from '../../src/lib/server/db/schema';
 let server: TestServer;
 let pid: number;
 let otherPid: number;
-const as: Record<'owner' | 'programmer' | 'electrician' | 'viewer' | 'outsider', Client> = {} as never;
+let as: Awaited<ReturnType<typeof signInCrew>>;
 
 beforeAll(async () => {
 	server = await startServer();
 	const { project, crew, outsider } = await makeCrew(server.db());
 	pid = project.id;
-	for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const) as[role] = await server.signIn(crew[role].email, PASSWORD);
-	as.outsider = await server.signIn(outsider.email, PASSWORD);
+	as = await signInCrew(server, crew, outsider);
 	otherPid = (await makeCrew(server.db())).project.id;
 });
 afterAll(() => server?.stop());

@@ -1,5 +1,6 @@
 import { hash } from '@node-rs/argon2';
 import type { Db } from '../../src/lib/server/db/index';
+import type { Client } from './server';
 import { memberships, projects, users, type Role } from '../../src/lib/server/db/schema';
 
 // Test data, written straight into the server's database file.
@@ -48,4 +49,16 @@ export async function makeCrew(db: Db) {
 	}
 	const outsider = await makeUser(db, { email: uniqueEmail('outsider') });
 	return { project, crew, outsider: { id: outsider.id, email: outsider.email! } };
+}
+
+/** A signed-in client per crew role and for the outsider of a makeCrew() project. */
+export async function signInCrew(
+	server: { signIn(email: string, password?: string): Promise<Client> },
+	crew: Record<Role, { email: string }>,
+	outsider: { email: string }
+): Promise<Record<Role | 'outsider', Client>> {
+	const clients = {} as Record<Role | 'outsider', Client>;
+	for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const) clients[role] = await server.signIn(crew[role].email, PASSWORD);
+	clients.outsider = await server.signIn(outsider.email, PASSWORD);
+	return clients;
 }

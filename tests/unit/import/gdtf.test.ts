@@ -1,18 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { modeSlotCount } from '../../../src/lib/patch/index';
-import { ApiError } from '../../../src/lib/server/api';
+import { refusal } from '../../helpers/refusal';
 import { parameterFor, parseDmxValue, parseGdtf, parseGdtfXml } from '../../../src/lib/server/import/gdtf';
 import { gdtfZip, PANEL_XML } from '../../helpers/gdtf';
 
-function refusal(fn: () => unknown): ApiError {
-	try {
-		fn();
-	} catch (e) {
-		if (e instanceof ApiError) return e;
-		throw e;
-	}
-	throw new Error('expected a refusal');
-}
 
 describe('GDTF fixture types (DIN SPEC 15800 structure)', () => {
 	const { type, dataVersion } = parseGdtf(gdtfZip());

@@ -1,18 +1,10 @@
 import { strToU8, zipSync } from 'fflate';
 import { describe, expect, it } from 'vitest';
 import { ApiError } from '../../../src/lib/server/api';
+import { refusal } from '../../helpers/refusal';
 import { readGdtfArchive } from '../../../src/lib/server/import/gdtf';
 import { guardXml, safeUnzip, sniff, unsafeEntryName } from '../../../src/lib/server/import/limits';
 
-function refusal(fn: () => unknown): ApiError {
-	try {
-		fn();
-	} catch (e) {
-		if (e instanceof ApiError) return e;
-		throw e;
-	}
-	throw new Error('expected a refusal');
-}
 
 describe('upload limits', () => {
 	it('sniffs by content: zip magic PK\\x03\\x04 (APPNOTE.TXT), JSON, text, binary', () => {

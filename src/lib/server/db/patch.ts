@@ -6,6 +6,7 @@ import {
 	type Conflict,
 	type FixtureControl,
 	type Mode,
+	type ModeChannel,
 	type PatchResult,
 	type SlotRange
 } from '../../patch/index';
@@ -28,15 +29,8 @@ export type FixtureRow = typeof fixtures.$inferSelect;
 export type UniverseRow = typeof universes.$inferSelect;
 export type ReceiverRow = typeof receivers.$inferSelect;
 
-export interface ChannelShape {
-	offset: number | null;
-	parameter: string;
-	bits: 8 | 16 | 24;
-	default: number;
-	min?: number;
-	max?: number;
-	unit?: string;
-}
+/** A mode's channel as the API shows it: exactly the engine's input. */
+export type ChannelShape = ModeChannel;
 export interface ModeShape {
 	id: number;
 	name: string;
