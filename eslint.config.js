@@ -15,7 +15,10 @@ export default ts.config(
 			'no-undef': 'off',
 			// no base path is configured, so plain hrefs are correct; resolve() would only add noise
 			'svelte/no-navigation-without-resolve': 'off',
-			'@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_' }]
+			'@typescript-eslint/no-unused-vars': [
+				'error',
+				{ argsIgnorePattern: '^_', varsIgnorePattern: '^_', destructuredArrayIgnorePattern: '^_' }
+			]
 		}
 	},
 	{

@@ -26,8 +26,7 @@ const limitSignIn: Handle = ({ event, resolve }) => {
 const readSession: Handle = async ({ event, resolve }) => {
 	const session = await event.locals.auth();
 	const user = session?.user;
-	event.locals.user =
-		user?.id && user.email ? { id: user.id, email: user.email, name: user.name ?? null } : null;
+	event.locals.user = user?.id && user.email ? { id: user.id, email: user.email, name: user.name ?? null } : null;
 	return resolve(event);
 };
 

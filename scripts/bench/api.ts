@@ -13,7 +13,12 @@ interface CannonResult {
 	non2xx: number;
 	errors: number;
 }
-type Cannon = (o: { url: string; connections: number; duration: number; headers?: Record<string, string> }) => Promise<CannonResult>;
+type Cannon = (o: {
+	url: string;
+	connections: number;
+	duration: number;
+	headers?: Record<string, string>;
+}) => Promise<CannonResult>;
 const autocannon = createRequire(import.meta.url)('autocannon') as Cannon;
 
 const FIXTURES = 20_000;
@@ -26,9 +31,16 @@ function seedBig(path: string, userId: string): number {
 		return sqlite.transaction(() => {
 			const pid = Number(sqlite.prepare("insert into project (name) values ('Bench rig')").run().lastInsertRowid);
 			sqlite.prepare("insert into membership (project_id, user_id, role) values (?, ?, 'owner')").run(pid, userId);
-			const typeId = Number(sqlite.prepare("insert into fixture_type (project_id, maker, model) values (?, 'Bench', 'Panel')").run(pid).lastInsertRowid);
-			const modeId = Number(sqlite.prepare("insert into mode (type_id, name) values (?, 'HSIC')").run(typeId).lastInsertRowid);
-			const ch = sqlite.prepare('insert into mode_channel (mode_id, position, offset, parameter, bits) values (?, ?, ?, ?, ?)');
+			const typeId = Number(
+				sqlite.prepare("insert into fixture_type (project_id, maker, model) values (?, 'Bench', 'Panel')").run(pid)
+					.lastInsertRowid
+			);
+			const modeId = Number(
+				sqlite.prepare("insert into mode (type_id, name) values (?, 'HSIC')").run(typeId).lastInsertRowid
+			);
+			const ch = sqlite.prepare(
+				'insert into mode_channel (mode_id, position, offset, parameter, bits) values (?, ?, ?, ?, ?)'
+			);
 			ch.run(modeId, 0, 1, 'intensity', 16);
 			ch.run(modeId, 1, 3, 'hue', 8);
 			ch.run(modeId, 2, 4, 'cct', 8);
@@ -61,7 +73,8 @@ async function patch20k(server: TestServer): Promise<BenchLine[]> {
 	try {
 		const first = await client.get(`/api/projects/${pid}/patch`);
 		const body = (await first.json()) as { fixtures: unknown[] };
-		if (first.status !== 200 || body.fixtures.length !== FIXTURES) throw new Error(`GET patch answered ${first.status} with ${body.fixtures.length} fixtures`);
+		if (first.status !== 200 || body.fixtures.length !== FIXTURES)
+			throw new Error(`GET patch answered ${first.status} with ${body.fixtures.length} fixtures`);
 		const r = await benchAgainst(
 			async () => {
 				const res = await client.get(`/api/projects/${pid}/patch`);

@@ -36,7 +36,11 @@ function median(xs: readonly number[]): number {
 }
 
 /** Time `fn`: `warmup` untimed runs (JIT, caches), then the median of `runs` timed ones. */
-export async function bench(name: string, fn: () => unknown, { runs = 15, warmup = 5 }: BenchOptions = {}): Promise<BenchResult> {
+export async function bench(
+	name: string,
+	fn: () => unknown,
+	{ runs = 15, warmup = 5 }: BenchOptions = {}
+): Promise<BenchResult> {
 	for (let i = 0; i < warmup; i++) await fn();
 	const samples: number[] = [];
 	for (let i = 0; i < runs; i++) {

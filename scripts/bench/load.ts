@@ -11,8 +11,11 @@ export const load: BenchModule = {
 	skip: () => Promise.resolve(existsSync('build/handler.js') ? null : 'no build: run npm run build first'),
 	async run() {
 		const r = await runLoad({ seconds: 20, connections: 50 });
-		if (r.status5xx || r.errors || r.timeouts) throw new Error(`load run failed: ${r.status5xx} × 5xx, ${r.errors} errors, ${r.timeouts} timeouts`);
-		console.error(`load: ${r.requests} requests, p50 ${r.p50} ms, max ${r.max} ms, ${r.writesOk} writes ok, ${r.conflicts409} × 409`);
+		if (r.status5xx || r.errors || r.timeouts)
+			throw new Error(`load run failed: ${r.status5xx} × 5xx, ${r.errors} errors, ${r.timeouts} timeouts`);
+		console.error(
+			`load: ${r.requests} requests, p50 ${r.p50} ms, max ${r.max} ms, ${r.writesOk} writes ok, ${r.conflicts409} × 409`
+		);
 		return [
 			{ name: 'load-mixed-p99', value: r.p99, unit: 'ms', ratio: r.p99 / 1000 },
 			{ name: 'load-mixed-rps', value: r.rps, unit: 'req/s', ratio: 100 / r.rps }

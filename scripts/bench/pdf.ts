@@ -8,7 +8,13 @@ import { bench, type BenchLine, type BenchModule } from './harness';
 
 const TARGET_MS = { 'pdf-patch-2k': 3000, 'pdf-labels-500': 3000 } as const;
 
-const title = { sheet: 'Patch sheet', project: 'Bench rig', revision: 'Revision 1', printed: new Date(0).toISOString(), signoff: 'none' };
+const title = {
+	sheet: 'Patch sheet',
+	project: 'Bench rig',
+	revision: 'Revision 1',
+	printed: new Date(0).toISOString(),
+	signoff: 'none'
+};
 
 export const pdf: BenchModule = {
 	name: 'pdf',
@@ -16,11 +22,17 @@ export const pdf: BenchModule = {
 	async run(): Promise<BenchLine[]> {
 		const big = bigPatch(2000);
 		const labels = bigPatch(500);
-		const patchMs = (await bench('pdf-patch-2k', () => renderPatchSheet(big, title, 'a4'), { runs: 5, warmup: 2 })).median;
+		const patchMs = (await bench('pdf-patch-2k', () => renderPatchSheet(big, title, 'a4'), { runs: 5, warmup: 2 }))
+			.median;
 		const labelMs = (
 			await bench(
 				'pdf-labels-500',
-				() => renderLabelSheet(labels, { ...title, sheet: 'Labels' }, { paper: 'a4', baseUrl: 'https://patchwright.example', projectId: 1 }),
+				() =>
+					renderLabelSheet(
+						labels,
+						{ ...title, sheet: 'Labels' },
+						{ paper: 'a4', baseUrl: 'https://patchwright.example', projectId: 1 }
+					),
 				{ runs: 5, warmup: 2 }
 			)
 		).median;

@@ -60,4 +60,16 @@ export const TYPE_LIBRARY: LibraryType[] = [
 	}
 ];
 
-export const PARAMETERS = ['intensity', 'hue', 'saturation', 'cct', 'red', 'green', 'blue', 'white', 'strobe', 'fan', 'control'];
+export const PARAMETERS = [
+	'intensity',
+	'hue',
+	'saturation',
+	'cct',
+	'red',
+	'green',
+	'blue',
+	'white',
+	'strobe',
+	'fan',
+	'control'
+];

@@ -10,16 +10,19 @@ beforeAll(async () => {
 afterAll(() => server?.stop());
 
 describe('sign-in (Auth.js credentials)', () => {
-	it.each(DEMO_USERS.map((u) => [u.role, u.email]))('the demo %s signs in and sees the demo project', async (role, email) => {
-		const client = await server.signIn(email);
-		const session = await client.session();
-		expect(session?.user?.email).toBe(email);
-		const res = await client.get('/api/projects');
-		expect(res.status).toBe(200);
-		const { projects } = await res.json();
-		expect(projects).toHaveLength(1);
-		expect(projects[0].role).toBe(role);
-	});
+	it.each(DEMO_USERS.map((u) => [u.role, u.email]))(
+		'the demo %s signs in and sees the demo project',
+		async (role, email) => {
+			const client = await server.signIn(email);
+			const session = await client.session();
+			expect(session?.user?.email).toBe(email);
+			const res = await client.get('/api/projects');
+			expect(res.status).toBe(200);
+			const { projects } = await res.json();
+			expect(projects).toHaveLength(1);
+			expect(projects[0].role).toBe(role);
+		}
+	);
 
 	it('a wrong password is refused with a clear error and no session', async () => {
 		const client = server.anonymous();
@@ -69,7 +72,11 @@ describe('sign-in (Auth.js credentials)', () => {
 describe('sign-up', () => {
 	it('creates an account that can then sign in', async () => {
 		const client = server.anonymous();
-		const res = await client.form('/signup', { name: 'New Gaffer', email: 'New.Gaffer@Example.test', password: 'a long enough password' });
+		const res = await client.form('/signup', {
+			name: 'New Gaffer',
+			email: 'New.Gaffer@Example.test',
+			password: 'a long enough password'
+		});
 		expect(res.status).toBe(303);
 		expect(res.headers.get('location')).toContain('/signin?registered=1');
 		const signedIn = await server.signIn('new.gaffer@example.test', 'a long enough password');
@@ -80,7 +87,11 @@ describe('sign-up', () => {
 		const client = server.anonymous();
 		const short = await client.fetch('/signup', {
 			method: 'POST',
-			headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-sveltekit-action': 'true', accept: 'application/json' },
+			headers: {
+				'content-type': 'application/x-www-form-urlencoded',
+				'x-sveltekit-action': 'true',
+				accept: 'application/json'
+			},
 			body: new URLSearchParams({ name: 'A', email: 'a@example.test', password: 'short' })
 		});
 		const shortBody = await short.json();
@@ -89,7 +100,11 @@ describe('sign-up', () => {
 		expect(shortBody.data).toContain('Use at least 10 characters.');
 		const taken = await client.fetch('/signup', {
 			method: 'POST',
-			headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-sveltekit-action': 'true', accept: 'application/json' },
+			headers: {
+				'content-type': 'application/x-www-form-urlencoded',
+				'x-sveltekit-action': 'true',
+				accept: 'application/json'
+			},
 			body: new URLSearchParams({ name: 'B', email: 'owner@demo.test', password: 'long enough password' })
 		});
 		const takenBody = await taken.json();
@@ -109,7 +124,12 @@ describe('e-mailed sign-in link (nodemailer provider → local SMTP sink)', () =
 
 		let link: string | undefined;
 		for (let i = 0; i < 50 && !link; i++) {
-			const mails = (await (await fetch(`${server.url}/dev/mail.json`)).json()) as { to: string; subject: string; text: string; html: string }[];
+			const mails = (await (await fetch(`${server.url}/dev/mail.json`)).json()) as {
+				to: string;
+				subject: string;
+				text: string;
+				html: string;
+			}[];
 			const mail = mails.find((m) => m.to.includes('electrician@demo.test'));
 			if (mail) {
 				expect(mail.subject).toContain('sign-in link');

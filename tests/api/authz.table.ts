@@ -20,7 +20,15 @@ import type { Role } from '../../src/lib/server/db/schema';
 
 export const CALLERS = ['owner', 'programmer', 'electrician', 'viewer', 'outsider', 'anonymous', 'review'] as const;
 export type Caller = (typeof CALLERS)[number];
-export type Expect = [owner: number, programmer: number, electrician: number, viewer: number, outsider: number, anonymous: number, review: number];
+export type Expect = [
+	owner: number,
+	programmer: number,
+	electrician: number,
+	viewer: number,
+	outsider: number,
+	anonymous: number,
+	review: number
+];
 
 export interface Req {
 	/** route params beyond pid (pid is the project under test unless given) */
@@ -64,7 +72,12 @@ export interface Row {
 	build: (c: Ctx) => Promise<Req> | Req;
 }
 
-const row = (method: Row['method'], route: string, expect: Expect, build: Row['build'] = () => ({})): Row => ({ method, route, expect, build });
+const row = (method: Row['method'], route: string, expect: Expect, build: Row['build'] = () => ({})): Row => ({
+	method,
+	route,
+	expect,
+	build
+});
 
 const fixture = async (c: Ctx) => ({ params: { id: (await c.fixture()).id } });
 
@@ -72,6 +85,12 @@ const fixture = async (c: Ctx) => ({ params: { id: (await c.fixture()).id } });
 export const ROUTES: Row[] = [
 	//   method    route                                                  own  prog elec view out  anon review   valid request
 	row('GET',    '/api/health',                                        [200, 200, 200, 200, 200, 200, 200]),
+	// any /api path no route matches, e.g. a non-numeric id: JSON 404 for everyone
+	row('GET',    '/api/[...rest]',                                     [404, 404, 404, 404, 404, 404, 404]),
+	row('POST',   '/api/[...rest]',                                     [404, 404, 404, 404, 404, 404, 404]),
+	row('PATCH',  '/api/[...rest]',                                     [404, 404, 404, 404, 404, 404, 404]),
+	row('PUT',    '/api/[...rest]',                                     [404, 404, 404, 404, 404, 404, 404]),
+	row('DELETE', '/api/[...rest]',                                     [404, 404, 404, 404, 404, 404, 404]),
 	row('GET',    '/dev/mail.json',                                     [200, 200, 200, 200, 200, 200, 200]), // dev sink only, loopback callers only: gone when SMTP_URL is set or PATCHWRIGHT_ENV=production
 	row('GET',    '/api/projects',                                      [200, 200, 200, 200, 200, 401, 401]),
 	row('POST',   '/api/projects',                                      [201, 201, 201, 201, 201, 401, 401], () => ({ body: { name: 'Authz probe' } })),
@@ -161,7 +180,15 @@ export const PAGES: Row[] = [
 export const TYPE_BODY = {
 	maker: 'Testworks',
 	model: 'Probe Panel',
-	modes: [{ name: '2ch', channels: [{ offset: 1, parameter: 'intensity', bits: 8 }, { offset: 2, parameter: 'cct', bits: 8 }] }]
+	modes: [
+		{
+			name: '2ch',
+			channels: [
+				{ offset: 1, parameter: 'intensity', bits: 8 },
+				{ offset: 2, parameter: 'cct', bits: 8 }
+			]
+		}
+	]
 };
 
 function photo(c: Ctx) {
@@ -195,11 +222,17 @@ export async function makeCtx(db: Db, pid: number, owner: Client, crew: Record<R
 		if (res.status !== status) throw new Error(`setup: ${res.url} answered ${res.status}: ${JSON.stringify(body)}`);
 		return body;
 	};
-	const post = async (path: string, body: unknown) => expectJson(await owner.post(`/api/projects/${pid}${path}`, body), 201);
+	const post = async (path: string, body: unknown) =>
+		expectJson(await owner.post(`/api/projects/${pid}${path}`, body), 201);
 	const t = await post('/types', TYPE_BODY);
 	const u = await post('/universes', { number: 1, name: 'Deck', transport: 'dmx-wired' });
 	const r = await post('/receivers', { name: 'Crane', protocol: 'sbus' });
-	const leader = await post('/fixtures', { number: 1, typeId: t.id, modeId: t.modes[0].id, control: { kind: 'dmx', universeId: u.id, address: 1 } });
+	const leader = await post('/fixtures', {
+		number: 1,
+		typeId: t.id,
+		modeId: t.modes[0].id,
+		control: { kind: 'dmx', universeId: u.id, address: 1 }
+	});
 	const base = { typeId: t.id, modeId: t.modes[0].id, universeId: u.id, receiverId: r.id };
 	const controls: Record<FixtureKind, () => unknown> = {
 		dmx: () => ({ kind: 'dmx', universeId: u.id, address: 1 + ((n * 2) % 500) }),
@@ -216,10 +249,12 @@ export async function makeCtx(db: Db, pid: number, owner: Client, crew: Record<R
 		db,
 		seq,
 		base,
-		projectVersion: () => (db.$client.prepare('select version from project where id = ?').get(pid) as { version: number }).version,
+		projectVersion: () =>
+			(db.$client.prepare('select version from project where id = ?').get(pid) as { version: number }).version,
 		async freshProject() {
 			const p = makeProject(db);
-			for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const) addMember(db, p.id, crew[role].id, role);
+			for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const)
+				addMember(db, p.id, crew[role].id, role);
 			return p.id;
 		},
 		universe: () => post('/universes', { number: 1000 + seq() }),
@@ -227,11 +262,19 @@ export async function makeCtx(db: Db, pid: number, owner: Client, crew: Record<R
 		receiver: () => post('/receivers', { name: `R${seq()}` }),
 		async fixture(kind) {
 			const k = kind ?? kinds[turn++ % kinds.length];
-			const f = await post('/fixtures', { number: 100 + seq(), typeId: base.typeId, modeId: base.modeId, control: controls[k]() });
+			const f = await post('/fixtures', {
+				number: 100 + seq(),
+				typeId: base.typeId,
+				modeId: base.modeId,
+				control: controls[k]()
+			});
 			return { id: f.id, kind: k };
 		},
 		async photo(fixtureId) {
-			const res = await owner.fetch(`/api/projects/${pid}/fixtures/${fixtureId}/photos`, { method: 'POST', body: photoForm() });
+			const res = await owner.fetch(`/api/projects/${pid}/fixtures/${fixtureId}/photos`, {
+				method: 'POST',
+				body: photoForm()
+			});
 			return expectJson(res, 201);
 		},
 		reviewLink: () => post('/review-links', { revision: 1 }),

@@ -18,7 +18,11 @@ const METHOD = /export\s+(?:const|async\s+function|function)\s+(GET|POST|PATCH|P
 /** `src/routes/api/(group)/x/[id]/+server.ts` → `/api/x/[id]` (route groups take no URL segment). */
 function routeId(file: string): string {
 	const dir = file.slice(ROOT.length).replace(/\/\+[^/]+$/, '');
-	const path = dir.split('/').filter((s) => s && !/^\(.*\)$/.test(s)).join('/');
+	const path = dir
+		.split('/')
+		.filter((s) => s && !/^\(.*\)$/.test(s))
+		.map((s) => s.replace(/=\w+\]$/, ']')) // a param matcher ([pid=int]) is not part of the route's name
+		.join('/');
 	return `/${path}`;
 }
 
@@ -28,7 +32,9 @@ function discover() {
 	for (const f of files.filter((x) => x.endsWith('/+server.ts') || x.endsWith('/+server.js'))) {
 		for (const m of readFileSync(f, 'utf8').matchAll(METHOD)) endpoints.add(`${m[1]} ${routeId(f)}`);
 	}
-	const pages = new Set(files.filter((x) => /\/\+page(\.server)?\.(ts|js|svelte)$/.test(x)).map((f) => `GET ${routeId(f)}`));
+	const pages = new Set(
+		files.filter((x) => /\/\+page(\.server)?\.(ts|js|svelte)$/.test(x)).map((f) => `GET ${routeId(f)}`)
+	);
 	return { endpoints, pages };
 }
 
@@ -58,17 +64,23 @@ beforeAll(async () => {
 	const db = server.db();
 	const { project, crew } = await makeCrew(db);
 	const other = await makeCrew(db);
-	for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const) as[role] = await server.signIn(crew[role].email, PASSWORD);
+	for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const)
+		as[role] = await server.signIn(crew[role].email, PASSWORD);
 	// the outsider owns another project: "a member somewhere" is not "a member here"
 	as.outsider = await server.signIn(other.crew.owner.email, PASSWORD);
 	as.anonymous = server.anonymous();
 	reviewToken = newToken();
-	db.insert(reviewLinks).values({ projectId: project.id, tokenHash: hashToken(reviewToken), label: 'authz probe' }).run();
+	db.insert(reviewLinks)
+		.values({ projectId: project.id, tokenHash: hashToken(reviewToken), label: 'authz probe' })
+		.run();
 	as.review = new ReviewHolder(server.url, reviewToken);
 	ctx = await makeCtx(db, project.id, as.owner, crew);
 	foreign = await makeCtx(db, other.project.id, as.outsider, other.crew);
 	// revision 1 in both projects, for the revision, review-link and sheet lines
-	for (const [client, pid] of [[as.owner, project.id], [as.outsider, other.project.id]] as const) {
+	for (const [client, pid] of [
+		[as.owner, project.id],
+		[as.outsider, other.project.id]
+	] as const) {
 		const res = await client.post(`/api/projects/${pid}/revisions`, { note: 'authz baseline' });
 		if (res.status !== 201) throw new Error(`setup: revision answered ${res.status}`);
 	}
@@ -99,8 +111,14 @@ describe('the table covers exactly the routes that exist', () => {
 	it('every +server.ts method has a line, and every line names a route that exists', () => {
 		const table = ROUTES.map(key);
 		expect(endpoints.size).toBeGreaterThan(30);
-		expect(table.filter((k) => !endpoints.has(k)), 'lines for routes that no longer exist').toEqual([]);
-		expect([...endpoints].filter((k) => !table.includes(k)), 'routes with no line in authz.table.ts').toEqual([]);
+		expect(
+			table.filter((k) => !endpoints.has(k)),
+			'lines for routes that no longer exist'
+		).toEqual([]);
+		expect(
+			[...endpoints].filter((k) => !table.includes(k)),
+			'routes with no line in authz.table.ts'
+		).toEqual([]);
 		expect(new Set(table).size).toBe(table.length);
 	});
 
@@ -124,9 +142,14 @@ describe('the matrix: each route × caller answers the expected status', () => {
 			if (res.status >= 400) {
 				const body = await res.json();
 				// the contract's error shape on every refusal
-				expect(body.error, `${caller}: ${JSON.stringify(body)}`).toEqual(expect.objectContaining({ code: expect.any(String), message: expect.any(String) }));
+				expect(body.error, `${caller}: ${JSON.stringify(body)}`).toEqual(
+					expect.objectContaining({ code: expect.any(String), message: expect.any(String) })
+				);
 				// a refusal wrote nothing
-				expect(fingerprint(server.db(), Number(req.params?.pid ?? ctx.pid)), `${caller} refused but the project changed`).toBe(before);
+				expect(
+					fingerprint(server.db(), Number(req.params?.pid ?? ctx.pid)),
+					`${caller} refused but the project changed`
+				).toBe(before);
 			} else await res.arrayBuffer();
 		}
 		expect(got).toEqual(want);
@@ -161,17 +184,22 @@ describe('the matrix: each route × caller answers the expected status', () => {
 
 describe('foreign ids answer 404 and change nothing', () => {
 	// row ids only: a revision number [n] names this project's own revision, a [token] or [sheet] no row at all
-	const withIds = ROUTES.filter((r) => r.route.startsWith('/api/projects/[pid]/') && /\[(id|userId|photoId)\]/.test(r.route));
+	const withIds = ROUTES.filter(
+		(r) => r.route.startsWith('/api/projects/[pid]/') && /\[(id|userId|photoId)\]/.test(r.route)
+	);
 
-	it.each(withIds.map((r) => [`${r.method} ${r.route}`, r] as const))('%s with another project’s ids, as this project’s owner', async (_, row) => {
-		// ids made in the foreign project, sent under our own project id
-		const req = await row.build(foreign);
-		const before = fingerprint(server.db(), foreign.pid);
-		const res = await send(as.owner, row, req, ctx.pid);
-		expect(res.status).toBe(404);
-		expect((await res.json()).error.code).toBe('not-found');
-		expect(fingerprint(server.db(), foreign.pid)).toBe(before);
-	});
+	it.each(withIds.map((r) => [`${r.method} ${r.route}`, r] as const))(
+		'%s with another project’s ids, as this project’s owner',
+		async (_, row) => {
+			// ids made in the foreign project, sent under our own project id
+			const req = await row.build(foreign);
+			const before = fingerprint(server.db(), foreign.pid);
+			const res = await send(as.owner, row, req, ctx.pid);
+			expect(res.status).toBe(404);
+			expect((await res.json()).error.code).toBe('not-found');
+			expect(fingerprint(server.db(), foreign.pid)).toBe(before);
+		}
+	);
 
 	it('a programmer of project A hitting project B’s universe and fixture ids under B → 404, B unchanged', async () => {
 		const u = await foreign.universe();
@@ -208,24 +236,39 @@ describe('privileged fields sent by lower roles are refused', () => {
 		look: () => ({ hue: 120 })
 	};
 
-	it.each(Object.keys(privileged))('electrician PATCH of a fixture’s %s → 403, row unchanged (single and bulk)', async (field) => {
-		const f = await ctx.fixture('dmx');
-		const before = fingerprint(server.db(), ctx.pid);
-		const single = await as.electrician.patch(`/api/projects/${ctx.pid}/fixtures/${f.id}`, { [field]: privileged[field](ctx), version: 1 });
-		expect(single.status).toBe(403);
-		expect((await single.json()).error.code).toBe('forbidden');
-		// mixed with allowed fields, still refused as a whole
-		const bulk = await as.electrician.patch(`/api/projects/${ctx.pid}/fixtures`, { fixtures: [{ id: f.id, state: 'hung', [field]: privileged[field](ctx), version: 1 }] });
-		expect(bulk.status).toBe(403);
-		expect(fingerprint(server.db(), ctx.pid)).toBe(before);
-		// the programmer may change the same field
-		const ok = await as.programmer.patch(`/api/projects/${ctx.pid}/fixtures/${f.id}`, { [field]: privileged[field](ctx), version: 1 });
-		expect(ok.status).toBe(200);
-	});
+	it.each(Object.keys(privileged))(
+		'electrician PATCH of a fixture’s %s → 403, row unchanged (single and bulk)',
+		async (field) => {
+			const f = await ctx.fixture('dmx');
+			const before = fingerprint(server.db(), ctx.pid);
+			const single = await as.electrician.patch(`/api/projects/${ctx.pid}/fixtures/${f.id}`, {
+				[field]: privileged[field](ctx),
+				version: 1
+			});
+			expect(single.status).toBe(403);
+			expect((await single.json()).error.code).toBe('forbidden');
+			// mixed with allowed fields, still refused as a whole
+			const bulk = await as.electrician.patch(`/api/projects/${ctx.pid}/fixtures`, {
+				fixtures: [{ id: f.id, state: 'hung', [field]: privileged[field](ctx), version: 1 }]
+			});
+			expect(bulk.status).toBe(403);
+			expect(fingerprint(server.db(), ctx.pid)).toBe(before);
+			// the programmer may change the same field
+			const ok = await as.programmer.patch(`/api/projects/${ctx.pid}/fixtures/${f.id}`, {
+				[field]: privileged[field](ctx),
+				version: 1
+			});
+			expect(ok.status).toBe(200);
+		}
+	);
 
 	it('electrician PATCH of state and notes → 200 and stored; viewer → 403', async () => {
 		const f = await ctx.fixture('dmx');
-		const ok = await as.electrician.patch(`/api/projects/${ctx.pid}/fixtures/${f.id}`, { state: 'addressed', notes: 'tape says 1', version: 1 });
+		const ok = await as.electrician.patch(`/api/projects/${ctx.pid}/fixtures/${f.id}`, {
+			state: 'addressed',
+			notes: 'tape says 1',
+			version: 1
+		});
 		expect(ok.status).toBe(200);
 		const got = await (await as.viewer.get(`/api/projects/${ctx.pid}/fixtures/${f.id}`)).json();
 		expect(got).toMatchObject({ state: 'addressed', notes: 'tape says 1', version: 2, control: { kind: 'dmx' } });
@@ -236,7 +279,9 @@ describe('privileged fields sent by lower roles are refused', () => {
 	it('a programmer cannot manage members or delete the project (owner only)', async () => {
 		const m = await ctx.member();
 		const before = fingerprint(server.db(), ctx.pid);
-		expect((await as.programmer.patch(`/api/projects/${ctx.pid}/members/${m.userId}`, { role: 'owner' })).status).toBe(403);
+		expect((await as.programmer.patch(`/api/projects/${ctx.pid}/members/${m.userId}`, { role: 'owner' })).status).toBe(
+			403
+		);
 		expect((await as.programmer.delete(`/api/projects/${ctx.pid}`)).status).toBe(403);
 		expect(fingerprint(server.db(), ctx.pid)).toBe(before);
 	});

@@ -54,7 +54,9 @@ describe('crash safety', () => {
 			// and the restarted server works
 			const again = await restarted.signIn(user.email!, PASSWORD);
 			expect((await again.post('/api/projects', { name: 'after the crash' })).status).toBe(201);
-			console.log(`crash test: ${acknowledged.length} writes acknowledged before SIGKILL, all present; ${failed} lanes cut off`);
+			console.log(
+				`crash test: ${acknowledged.length} writes acknowledged before SIGKILL, all present; ${failed} lanes cut off`
+			);
 		} finally {
 			await restarted.stop();
 		}

@@ -21,17 +21,46 @@ afterEach(() => {
 	}
 });
 
-const count = (db: Db, table: typeof projects | typeof users | typeof fixtures | typeof fixtureTypes | typeof universes) =>
-	db.select({ n: sql<number>`count(*)` }).from(table).get()!.n;
+const count = (
+	db: Db,
+	table: typeof projects | typeof users | typeof fixtures | typeof fixtureTypes | typeof universes
+) =>
+	db
+		.select({ n: sql<number>`count(*)` })
+		.from(table)
+		.get()!.n;
 
 describe('migrations on an empty database', () => {
 	it('create every table of the data model, with foreign keys on and WAL', () => {
 		const db = fresh();
 		const tables = db.$client
-			.prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' and name not like '__drizzle%'")
+			.prepare(
+				"select name from sqlite_master where type = 'table' and name not like 'sqlite_%' and name not like '__drizzle%'"
+			)
 			.pluck()
 			.all() as string[];
-		for (const t of ['user', 'account', 'session', 'verificationToken', 'project', 'membership', 'invitation', 'universe', 'fixture_type', 'mode', 'mode_channel', 'fixture', 'receiver', 'receiver_label', 'upload', 'revision', 'review_link', 'signoff', 'audit_log', 'mail_outbox']) {
+		for (const t of [
+			'user',
+			'account',
+			'session',
+			'verificationToken',
+			'project',
+			'membership',
+			'invitation',
+			'universe',
+			'fixture_type',
+			'mode',
+			'mode_channel',
+			'fixture',
+			'receiver',
+			'receiver_label',
+			'upload',
+			'revision',
+			'review_link',
+			'signoff',
+			'audit_log',
+			'mail_outbox'
+		]) {
 			expect(tables).toContain(t);
 		}
 		expect(db.$client.pragma('foreign_keys', { simple: true })).toBe(1);
@@ -66,7 +95,13 @@ describe('demo seed', () => {
 		const db = fresh();
 		const first = await seedDemo(db);
 		expect(first.created).toBe(true);
-		const counts = { projects: count(db, projects), users: count(db, users), fixtures: count(db, fixtures), types: count(db, fixtureTypes), universes: count(db, universes) };
+		const counts = {
+			projects: count(db, projects),
+			users: count(db, users),
+			fixtures: count(db, fixtures),
+			types: count(db, fixtureTypes),
+			universes: count(db, universes)
+		};
 		expect(counts.users).toBe(DEMO_USERS.length);
 		expect(counts.fixtures).toBeGreaterThanOrEqual(38);
 		expect(counts.fixtures).toBeLessThanOrEqual(50);
@@ -75,7 +110,13 @@ describe('demo seed', () => {
 
 		const second = await seedDemo(db);
 		expect(second).toEqual({ projectId: first.projectId, created: false });
-		expect({ projects: count(db, projects), users: count(db, users), fixtures: count(db, fixtures), types: count(db, fixtureTypes), universes: count(db, universes) }).toEqual(counts);
+		expect({
+			projects: count(db, projects),
+			users: count(db, users),
+			fixtures: count(db, fixtures),
+			types: count(db, fixtureTypes),
+			universes: count(db, universes)
+		}).toEqual(counts);
 	});
 
 	it('includes every kind of control the demo is meant to show', async () => {

@@ -55,7 +55,14 @@ const row = (id: number) => server.db().select().from(fixtures).where(eq(fixture
 describe('creating fixtures', () => {
 	it('one object answers 201 with the fixture shape', async () => {
 		const f = await create({ label: 'CAR KEY 2', linkGroup: 'bow', look: { hue: 30 } });
-		expect(f).toMatchObject({ label: 'CAR KEY 2', state: 'planned', version: 1, linkGroup: 'bow', control: dmx(1), look: { hue: 30, cct: null } });
+		expect(f).toMatchObject({
+			label: 'CAR KEY 2',
+			state: 'planned',
+			version: 1,
+			linkGroup: 'bow',
+			control: dmx(1),
+			look: { hue: 30, cct: null }
+		});
 		const list = await (await as.viewer.get(`${base()}/fixtures`)).json();
 		expect(list.fixtures.some((x: { id: number }) => x.id === f.id)).toBe(true);
 	});
@@ -77,12 +84,29 @@ describe('creating fixtures', () => {
 		['a mode of another type', () => body({ modeId: otherType.modeIds.one }), ['modeId']],
 		['address 0 (E1.11 slots are 1–512)', () => body({ control: dmx(0) }), ['control', 'address']],
 		['a 6-slot footprint from 508 (would end on 513)', () => body({ control: dmx(508) }), ['control', 'address']],
-		['a dmx-map parameter the mode lacks', () => body({ modeId: type.modeIds.sparse, control: { kind: 'dmx-map', universeId: uni, addresses: { blue: 4 } } }), ['control', 'addresses', 'blue']],
-		['a 16-bit dmx-map parameter at 512', () => body({ modeId: type.modeIds.sparse, control: { kind: 'dmx-map', universeId: uni, addresses: { intensity: 512 } } }), ['control', 'addresses', 'intensity']],
+		[
+			'a dmx-map parameter the mode lacks',
+			() =>
+				body({ modeId: type.modeIds.sparse, control: { kind: 'dmx-map', universeId: uni, addresses: { blue: 4 } } }),
+			['control', 'addresses', 'blue']
+		],
+		[
+			'a 16-bit dmx-map parameter at 512',
+			() =>
+				body({
+					modeId: type.modeIds.sparse,
+					control: { kind: 'dmx-map', universeId: uni, addresses: { intensity: 512 } }
+				}),
+			['control', 'addresses', 'intensity']
+		],
 		['an unknown state', () => body({ state: 'lost' }), ['state']],
 		['a label over 60 characters', () => body({ label: 'L'.repeat(61) }), ['label']],
 		['an unknown field', () => body({ dimmer: 1 }), []],
-		['following a fixture of no project', () => body({ control: { kind: 'follow', leaderId: 99999999 } }), ['control', 'leaderId']]
+		[
+			'following a fixture of no project',
+			() => body({ control: { kind: 'follow', leaderId: 99999999 } }),
+			['control', 'leaderId']
+		]
 	])('refuses %s with 400 and the field path', async (_, make, path) => {
 		const res = await as.programmer.post(`${base()}/fixtures`, make());
 		expect(res.status).toBe(400);
@@ -93,7 +117,9 @@ describe('creating fixtures', () => {
 
 	it('the overflow message says where the footprint would end', async () => {
 		const res = await as.programmer.post(`${base()}/fixtures`, body({ control: dmx(508) }));
-		expect((await res.json()).error.message).toBe('This mode needs 6 slots; from address 508 it would run to slot 513, past 512. Start at 507 or lower.');
+		expect((await res.json()).error.message).toBe(
+			'This mode needs 6 slots; from address 508 it would run to slot 513, past 512. Start at 507 or lower.'
+		);
 	});
 
 	it('a fixture number already used answers 409', async () => {
@@ -105,7 +131,10 @@ describe('creating fixtures', () => {
 
 	it('RC channels must be within the receiver’s protocol (PPM: 8)', async () => {
 		const r = makeReceiver(server.db(), pid, 'ppm');
-		const res = await as.programmer.post(`${base()}/fixtures`, body({ control: { kind: 'rc', receiverId: r.id, channels: { p1: 9 } } }));
+		const res = await as.programmer.post(
+			`${base()}/fixtures`,
+			body({ control: { kind: 'rc', receiverId: r.id, channels: { p1: 9 } } })
+		);
 		expect(res.status).toBe(400);
 		expect((await res.json()).error.issues[0].path).toEqual(['control', 'channels', 'p1']);
 	});
@@ -120,10 +149,20 @@ describe('creating fixtures', () => {
 describe('changing fixtures', () => {
 	it('PATCH changes fields, bumps the version and audits before/after', async () => {
 		const f = await create();
-		const res = await as.programmer.patch(`${base()}/fixtures/${f.id}`, { version: 1, label: 'BOW 1', control: dmx(11) });
+		const res = await as.programmer.patch(`${base()}/fixtures/${f.id}`, {
+			version: 1,
+			label: 'BOW 1',
+			control: dmx(11)
+		});
 		expect(res.status).toBe(200);
 		expect(await res.json()).toMatchObject({ label: 'BOW 1', version: 2, control: dmx(11) });
-		const audit = server.db().select().from(auditLog).where(eq(auditLog.entityId, String(f.id))).all().filter((a) => a.action === 'fixture.update');
+		const audit = server
+			.db()
+			.select()
+			.from(auditLog)
+			.where(eq(auditLog.entityId, String(f.id)))
+			.all()
+			.filter((a) => a.action === 'fixture.update');
 		expect(audit).toHaveLength(1);
 		expect(audit[0].before).toMatchObject({ label: '', version: 1 });
 		expect(audit[0].after).toMatchObject({ label: 'BOW 1', version: 2 });
@@ -136,7 +175,11 @@ describe('changing fixtures', () => {
 			expect(res.status).toBe(403);
 		}
 		expect(row(f.id)).toMatchObject({ address: 1, label: '', version: 1 });
-		const ok = await as.electrician.patch(`${base()}/fixtures/${f.id}`, { version: 1, state: 'hung', notes: 'on the rail' });
+		const ok = await as.electrician.patch(`${base()}/fixtures/${f.id}`, {
+			version: 1,
+			state: 'hung',
+			notes: 'on the rail'
+		});
 		expect(ok.status).toBe(200);
 		expect(row(f.id)).toMatchObject({ state: 'hung', notes: 'on the rail', version: 2, address: 1 });
 		expect((await as.viewer.patch(`${base()}/fixtures/${f.id}`, { version: 2, state: 'checked' })).status).toBe(403);
@@ -155,7 +198,11 @@ describe('changing fixtures', () => {
 	it('ten concurrent PATCHes with the same version: exactly one 200, nine 409, the row is the winner’s', async () => {
 		const f = await create();
 		const results = await Promise.all(
-			Array.from({ length: 10 }, (_, i) => as.programmer.patch(`${base()}/fixtures/${f.id}`, { version: 1, label: `racer ${i}` }).then(async (r) => ({ status: r.status, body: await r.json() })))
+			Array.from({ length: 10 }, (_, i) =>
+				as.programmer
+					.patch(`${base()}/fixtures/${f.id}`, { version: 1, label: `racer ${i}` })
+					.then(async (r) => ({ status: r.status, body: await r.json() }))
+			)
 		);
 		const winners = results.filter((r) => r.status === 200);
 		expect(winners).toHaveLength(1);
@@ -164,37 +211,68 @@ describe('changing fixtures', () => {
 	});
 
 	it('a PATCH of another project’s fixture id is 404', async () => {
-		const foreign = makeFixture(server.db(), { projectId: otherPid, number: 1, typeId: makeType(server.db(), otherPid, { m: channels(1) }).type.id, modeId: makeType(server.db(), otherPid, { m: channels(1) }).modeIds.m });
-		expect((await as.programmer.patch(`${base()}/fixtures/${foreign.id}`, { version: 1, label: 'x' })).status).toBe(404);
+		const foreign = makeFixture(server.db(), {
+			projectId: otherPid,
+			number: 1,
+			typeId: makeType(server.db(), otherPid, { m: channels(1) }).type.id,
+			modeId: makeType(server.db(), otherPid, { m: channels(1) }).modeIds.m
+		});
+		expect((await as.programmer.patch(`${base()}/fixtures/${foreign.id}`, { version: 1, label: 'x' })).status).toBe(
+			404
+		);
 		expect((await as.programmer.delete(`${base()}/fixtures/${foreign.id}`)).status).toBe(404);
 	});
 
 	it('bulk PATCH moves many in one transaction; one stale version refuses the batch and writes nothing', async () => {
 		const a = await create();
 		const b = await create();
-		const ok = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 1, control: dmx(101) }, { id: b.id, version: 1, control: dmx(201) }] });
+		const ok = await as.programmer.patch(`${base()}/fixtures`, {
+			fixtures: [
+				{ id: a.id, version: 1, control: dmx(101) },
+				{ id: b.id, version: 1, control: dmx(201) }
+			]
+		});
 		expect(ok.status).toBe(200);
 		expect((await ok.json()).fixtures.map((f: { version: number }) => f.version)).toEqual([2, 2]);
-		const stale = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 2, control: dmx(301) }, { id: b.id, version: 1, control: dmx(401) }] });
+		const stale = await as.programmer.patch(`${base()}/fixtures`, {
+			fixtures: [
+				{ id: a.id, version: 2, control: dmx(301) },
+				{ id: b.id, version: 1, control: dmx(401) }
+			]
+		});
 		expect(stale.status).toBe(409);
 		const err = await stale.json();
 		expect(err.error.code).toBe('stale');
 		expect(err.stale).toEqual([b.id]);
 		expect(err.current.map((f: { id: number }) => f.id)).toEqual([a.id, b.id]);
 		expect([row(a.id).address, row(b.id).address]).toEqual([101, 201]);
-		const mine = await as.electrician.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 2, control: dmx(5) }] });
+		const mine = await as.electrician.patch(`${base()}/fixtures`, {
+			fixtures: [{ id: a.id, version: 2, control: dmx(5) }]
+		});
 		expect(mine.status).toBe(403);
 	});
 
 	it('bulk PATCH may swap two fixture numbers; a clash with a third is 409; bad items are 400 with their index', async () => {
 		const [a, b, c] = [await create(), await create(), await create()];
-		const swap = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 1, number: b.number }, { id: b.id, version: 1, number: a.number }] });
+		const swap = await as.programmer.patch(`${base()}/fixtures`, {
+			fixtures: [
+				{ id: a.id, version: 1, number: b.number },
+				{ id: b.id, version: 1, number: a.number }
+			]
+		});
 		expect(swap.status).toBe(200);
 		expect([row(a.id).number, row(b.id).number]).toEqual([b.number, a.number]);
-		const clash = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 2, number: c.number }] });
+		const clash = await as.programmer.patch(`${base()}/fixtures`, {
+			fixtures: [{ id: a.id, version: 2, number: c.number }]
+		});
 		expect(clash.status).toBe(409);
 		expect((await clash.json()).error.code).toBe('duplicate');
-		const bad = await as.programmer.patch(`${base()}/fixtures`, { fixtures: [{ id: a.id, version: 2, label: 'ok' }, { id: b.id, version: 2, control: dmx(600) }] });
+		const bad = await as.programmer.patch(`${base()}/fixtures`, {
+			fixtures: [
+				{ id: a.id, version: 2, label: 'ok' },
+				{ id: b.id, version: 2, control: dmx(600) }
+			]
+		});
 		expect(bad.status).toBe(400);
 		expect((await bad.json()).error.issues[0].path).toEqual(['fixtures', 1, 'control', 'address']);
 		expect(row(a.id).label).toBe('');
@@ -215,7 +293,9 @@ describe('deleting fixtures', () => {
 		const follower = await create({ control: { kind: 'follow', leaderId: leader.id } });
 		const refused = await as.programmer.delete(`${base()}/fixtures/${leader.id}`);
 		expect(refused.status).toBe(409);
-		expect((await refused.json()).usedBy).toEqual([expect.objectContaining({ id: follower.id, number: follower.number })]);
+		expect((await refused.json()).usedBy).toEqual([
+			expect.objectContaining({ id: follower.id, number: follower.number })
+		]);
 		expect((await as.electrician.delete(`${base()}/fixtures/${leader.id}`)).status).toBe(403);
 		expect((await as.programmer.delete(`${base()}/fixtures/${leader.id}?detach=true`)).status).toBe(204);
 		expect(row(follower.id)).toMatchObject({ controlKind: 'manual', leaderId: null, version: 2 });
@@ -234,10 +314,16 @@ describe('autopatch', () => {
 		expect(preview.status).toBe(200);
 		const p = await preview.json();
 		// six-slot footprints after the blocker's 1–6: 7, 13, 19 (first fit; the mover's own 7–12 does not count)
-		expect(p.placed).toEqual([{ fixtureId: ids[0], address: 7 }, { fixtureId: ids[1], address: 13 }, { fixtureId: ids[2], address: 19 }]);
+		expect(p.placed).toEqual([
+			{ fixtureId: ids[0], address: 7 },
+			{ fixtureId: ids[1], address: 13 },
+			{ fixtureId: ids[2], address: 19 }
+		]);
 		expect(p.applied).toBe(false);
 		expect(row(ids[1]).universeId).toBe(uni);
-		const aligned = await (await as.programmer.post(`${base()}/autopatch`, { fixtureIds: ids, universeId: u, align: 10, apply: true })).json();
+		const aligned = await (
+			await as.programmer.post(`${base()}/autopatch`, { fixtureIds: ids, universeId: u, align: 10, apply: true })
+		).json();
 		// round addresses 1, 11, 21 …: 1 is taken by the blocker
 		expect(aligned.placed.map((x: { address: number }) => x.address)).toEqual([11, 21, 31]);
 		expect(row(ids[2])).toMatchObject({ universeId: u, address: 31, controlKind: 'dmx', version: 2 });
@@ -247,7 +333,9 @@ describe('autopatch', () => {
 	it('reports what does not fit instead of dropping it', async () => {
 		const u = makeUniverse(server.db(), pid, 51).id;
 		const f = await create();
-		const res = await (await as.programmer.post(`${base()}/autopatch`, { fixtureIds: [f.id], universeId: u, start: 510 })).json();
+		const res = await (
+			await as.programmer.post(`${base()}/autopatch`, { fixtureIds: [f.id], universeId: u, start: 510 })
+		).json();
 		expect(res.placed).toEqual([]);
 		expect(res.unplaced[0]).toMatchObject({ fixtureId: f.id });
 		expect(res.unplaced[0].reason).toContain('needs 6 slots');
@@ -255,7 +343,9 @@ describe('autopatch', () => {
 
 	it('refuses a universe of another project (400) and viewers (403)', async () => {
 		const f = await create();
-		expect((await as.programmer.post(`${base()}/autopatch`, { fixtureIds: [f.id], universeId: otherUni })).status).toBe(400);
+		expect((await as.programmer.post(`${base()}/autopatch`, { fixtureIds: [f.id], universeId: otherUni })).status).toBe(
+			400
+		);
 		expect((await as.viewer.post(`${base()}/autopatch`, { fixtureIds: [f.id], universeId: uni })).status).toBe(403);
 	});
 });
@@ -264,7 +354,15 @@ describe('conflicts the engine finds in what the API wrote', () => {
 	async function conflictsIn(universeId: number) {
 		const res = await as.viewer.get(`${base()}/conflicts`);
 		expect(res.status).toBe(200);
-		return ((await res.json()).conflicts as { kind: string; severity: string; universeId?: number; fixtureIds: number[]; slots?: number[] }[]).filter((c) => c.universeId === universeId);
+		return (
+			(await res.json()).conflicts as {
+				kind: string;
+				severity: string;
+				universeId?: number;
+				fixtureIds: number[];
+				slots?: number[];
+			}[]
+		).filter((c) => c.universeId === universeId);
 	}
 
 	it('a type edit that lengthens a used mode is allowed and shows as an overflow error (fixture writes refuse it)', async () => {
@@ -274,7 +372,17 @@ describe('conflicts the engine finds in what the API wrote', () => {
 		const f = await create({ typeId: t.type.id, modeId: t.modeIds.m, control: dmx(509, u) });
 		const grown = await as.programmer.patch(`${base()}/types/${t.type.id}`, {
 			version: 1,
-			modes: [{ id: t.modeIds.m, name: 'm', channels: [{ offset: 1, parameter: 'intensity', bits: 16 }, { offset: 3, parameter: 'hue', bits: 16 }, { offset: 5, parameter: 'cct', bits: 16 }] }]
+			modes: [
+				{
+					id: t.modeIds.m,
+					name: 'm',
+					channels: [
+						{ offset: 1, parameter: 'intensity', bits: 16 },
+						{ offset: 3, parameter: 'hue', bits: 16 },
+						{ offset: 5, parameter: 'cct', bits: 16 }
+					]
+				}
+			]
 		});
 		expect(grown.status).toBe(200);
 		const c = await conflictsIn(u);
@@ -285,7 +393,10 @@ describe('conflicts the engine finds in what the API wrote', () => {
 	it('a sparse dmx-map fixture overlapping a contiguous one is an overlap error naming the slots', async () => {
 		const u = makeUniverse(server.db(), pid, 61).id;
 		const a = await create({ control: dmx(1, u) });
-		const b = await create({ modeId: type.modeIds.sparse, control: { kind: 'dmx-map', universeId: u, addresses: { intensity: 5, hue: 100 } } });
+		const b = await create({
+			modeId: type.modeIds.sparse,
+			control: { kind: 'dmx-map', universeId: u, addresses: { intensity: 5, hue: 100 } }
+		});
 		const c = await conflictsIn(u);
 		expect(c).toHaveLength(1);
 		expect(c[0]).toMatchObject({ kind: 'overlap', severity: 'error', slots: [5, 6] });
@@ -309,14 +420,27 @@ describe('the cached patch', () => {
 		const db = server.db();
 		const u = makeUniverse(db, pid, 70).id;
 		const a = await create({ control: dmx(1, u) });
-		const kinds = async () => ((await (await as.viewer.get(`${base()}/conflicts`)).json()).conflicts as { kind: string; universeId?: number }[]).filter((c) => c.universeId === u).map((c) => c.kind);
+		const kinds = async () =>
+			((await (await as.viewer.get(`${base()}/conflicts`)).json()).conflicts as { kind: string; universeId?: number }[])
+				.filter((c) => c.universeId === u)
+				.map((c) => c.kind);
 		expect(await kinds()).toEqual([]);
 		// a 6-slot unit at 4 overlaps slots 4–6 of the one at 1 (written straight to the file, not through the server)
-		const b = makeFixture(db, { projectId: pid, number: 9070, typeId: type.type.id, modeId: type.modeIds.six, controlKind: 'dmx', universeId: u, address: 4 });
+		const b = makeFixture(db, {
+			projectId: pid,
+			number: 9070,
+			typeId: type.type.id,
+			modeId: type.modeIds.six,
+			controlKind: 'dmx',
+			universeId: u,
+			address: 4
+		});
 		expect(await kinds()).toEqual(['overlap']);
 		expect((await as.programmer.delete(`${base()}/fixtures/${b.id}`)).status).toBe(204);
 		expect(await kinds()).toEqual([]);
-		expect((await as.programmer.patch(`${base()}/fixtures/${a.id}`, { version: 1, control: dmx(2, u) })).status).toBe(200);
+		expect((await as.programmer.patch(`${base()}/fixtures/${a.id}`, { version: 1, control: dmx(2, u) })).status).toBe(
+			200
+		);
 		const patch = await (await as.viewer.get(`${base()}/patch`)).json();
 		expect(patch.fixtures.find((f: { id: number }) => f.id === a.id).slots).toEqual([{ start: 2, end: 7 }]);
 	});

@@ -26,7 +26,10 @@ describe('demo round trips', () => {
 		const second = await (await owner.get(`/api/projects/${copy}/export.json`)).json();
 		expect(normaliseExport(second)).toEqual(normaliseExport(first));
 		// same conflicts computed on both (the deliberate overlap survives)
-		const conflicts = async (p: number) => (await (await owner.get(`/api/projects/${p}/conflicts`)).json()).conflicts.map((c: { kind: string; message: string }) => `${c.kind}: ${c.message}`);
+		const conflicts = async (p: number) =>
+			(await (await owner.get(`/api/projects/${p}/conflicts`)).json()).conflicts.map(
+				(c: { kind: string; message: string }) => `${c.kind}: ${c.message}`
+			);
 		expect(await conflicts(copy)).toEqual(await conflicts(pid));
 	});
 

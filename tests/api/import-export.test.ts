@@ -30,7 +30,9 @@ afterAll(() => server?.stop());
  */
 function oversized(chunked: boolean): Promise<{ status: number; body: string }> {
 	const boundary = 'xxBOUNDARYxx';
-	const head = Buffer.from(`--${boundary}\r\ncontent-disposition: form-data; name="file"; filename="big.csv"\r\ncontent-type: text/csv\r\n\r\n`);
+	const head = Buffer.from(
+		`--${boundary}\r\ncontent-disposition: form-data; name="file"; filename="big.csv"\r\ncontent-type: text/csv\r\n\r\n`
+	);
 	const tail = Buffer.from(`\r\n--${boundary}--\r\n`);
 	const size = 21 * 1024 * 1024;
 	const chunk = Buffer.alloc(64 * 1024, 0x41);
@@ -66,15 +68,23 @@ function oversized(chunked: boolean): Promise<{ status: number; body: string }> 
 	});
 }
 
-function upload(client: Client, path: string, bytes: Uint8Array | string, name: string, apply = false): Promise<Response> {
+function upload(
+	client: Client,
+	path: string,
+	bytes: Uint8Array | string,
+	name: string,
+	apply = false
+): Promise<Response> {
 	const form = new FormData();
 	form.set('file', new Blob([typeof bytes === 'string' ? strToU8(bytes) : new Uint8Array(bytes)]), name);
 	if (apply) form.set('apply', 'true');
 	return client.fetch(path, { method: 'POST', body: form });
 }
-const importTo = (p: number, bytes: Uint8Array | string, name: string, apply = false, client = as.programmer) => upload(client, `/api/projects/${p}/import`, bytes, name, apply);
+const importTo = (p: number, bytes: Uint8Array | string, name: string, apply = false, client = as.programmer) =>
+	upload(client, `/api/projects/${p}/import`, bytes, name, apply);
 
-const count = (table: typeof fixtures | typeof universes | typeof fixtureTypes, p = pid) => server.db().select().from(table).where(eq(table.projectId, p)).all().length;
+const count = (table: typeof fixtures | typeof universes | typeof fixtureTypes, p = pid) =>
+	server.db().select().from(table).where(eq(table.projectId, p)).all().length;
 
 async function healthy() {
 	expect((await fetch(`${server.url}/api/health`)).status).toBe(200);
@@ -125,8 +135,21 @@ async function makePanelType(p: number) {
 		maker: 'Acme Lamps',
 		model: 'Deck Panel',
 		modes: [
-			{ name: 'Basic', channels: [{ offset: 1, parameter: 'intensity', bits: 8 }, { offset: 2, parameter: 'cct', bits: 8 }] },
-			{ name: 'HSI 11', channels: [{ offset: 1, parameter: 'intensity', bits: 16 }, { offset: 3, parameter: 'hue', bits: 16 }, { offset: 11, parameter: 'strobe', bits: 8 }] }
+			{
+				name: 'Basic',
+				channels: [
+					{ offset: 1, parameter: 'intensity', bits: 8 },
+					{ offset: 2, parameter: 'cct', bits: 8 }
+				]
+			},
+			{
+				name: 'HSI 11',
+				channels: [
+					{ offset: 1, parameter: 'intensity', bits: 16 },
+					{ offset: 3, parameter: 'hue', bits: 16 },
+					{ offset: 11, parameter: 'strobe', bits: 8 }
+				]
+			}
 		]
 	});
 	expect(res.status).toBe(201);
@@ -138,7 +161,11 @@ describe('CSV patch import', () => {
 		const p = await newProject('CSV good');
 		await makePanelType(p);
 		await as.programmer.post(`/api/projects/${p}/universes`, { number: 1 });
-		const csv = ['Fixture #,Name,Manufacturer,Fixture Type,DMX Mode,Univ,DMX Address,Pos.', '1,Key 1,acme lamps,DECK PANEL,basic,1,1,Dock', '2,Key 2,Acme Lamps,Deck Panel,HSI 11,,2.101,Dock'].join('\n');
+		const csv = [
+			'Fixture #,Name,Manufacturer,Fixture Type,DMX Mode,Univ,DMX Address,Pos.',
+			'1,Key 1,acme lamps,DECK PANEL,basic,1,1,Dock',
+			'2,Key 2,Acme Lamps,Deck Panel,HSI 11,,2.101,Dock'
+		].join('\n');
 		const preview = await importTo(p, csv, 'patch.csv');
 		expect(preview.status).toBe(200);
 		const summary = await preview.json();
@@ -153,7 +180,9 @@ describe('CSV patch import', () => {
 		const applied = await importTo(p, csv, 'patch.csv', true);
 		expect(applied.status).toBe(201);
 		const patch = await (await as.programmer.get(`/api/projects/${p}/patch`)).json();
-		expect(patch.fixtures.map((f: { number: number; label: string; slots: unknown }) => [f.number, f.label, f.slots])).toEqual([
+		expect(
+			patch.fixtures.map((f: { number: number; label: string; slots: unknown }) => [f.number, f.label, f.slots])
+		).toEqual([
 			[1, 'Key 1', [{ start: 1, end: 2 }]],
 			[2, 'Key 2', [{ start: 101, end: 111 }]]
 		]);
@@ -164,11 +193,17 @@ describe('CSV patch import', () => {
 
 		const moved = await importTo(p, 'number,universe,address\n2,2,201\n3,1,20', 'move.csv', true);
 		expect(moved.status).toBe(422);
-		expect((await moved.json()).error.issues).toEqual([{ row: 3, field: 'maker', message: 'A new fixture needs a maker and a model.' }]);
+		expect((await moved.json()).error.issues).toEqual([
+			{ row: 3, field: 'maker', message: 'A new fixture needs a maker and a model.' }
+		]);
 		const ok = await importTo(p, 'number,universe,address\n2,2,201', 'move.csv', true);
 		expect(ok.status).toBe(201);
-		expect((await ok.json()).update).toEqual([{ row: 2, id: expect.any(Number), number: 2, label: 'Key 2', changes: ['patch → 2.201'] }]);
-		const f2 = (await (await as.programmer.get(`/api/projects/${p}/fixtures`)).json()).fixtures.find((f: { number: number }) => f.number === 2);
+		expect((await ok.json()).update).toEqual([
+			{ row: 2, id: expect.any(Number), number: 2, label: 'Key 2', changes: ['patch → 2.201'] }
+		]);
+		const f2 = (await (await as.programmer.get(`/api/projects/${p}/fixtures`)).json()).fixtures.find(
+			(f: { number: number }) => f.number === 2
+		);
 		expect(f2).toMatchObject({ version: 2, label: 'Key 2', control: { kind: 'dmx', address: 201 } });
 	});
 
@@ -205,37 +240,118 @@ describe('exports', () => {
 		const u = await (await as.programmer.post(`/api/projects/${p}/universes`, { number: 2 })).json();
 		const hsi = type.modes[1].id;
 		await as.programmer.post(`/api/projects/${p}/fixtures`, [
-			{ number: 1, label: '=HYPERLINK("http://x.invalid")', typeId: type.id, modeId: hsi, notes: '@SUM(A1)', control: { kind: 'dmx', universeId: u.id, address: 101 } },
-			{ number: 2, label: '-neg', typeId: type.id, modeId: hsi, control: { kind: 'dmx-map', universeId: u.id, addresses: { intensity: 1, hue: 20, strobe: 30 } } }
+			{
+				number: 1,
+				label: '=HYPERLINK("http://x.invalid")',
+				typeId: type.id,
+				modeId: hsi,
+				notes: '@SUM(A1)',
+				control: { kind: 'dmx', universeId: u.id, address: 101 }
+			},
+			{
+				number: 2,
+				label: '-neg',
+				typeId: type.id,
+				modeId: hsi,
+				control: { kind: 'dmx-map', universeId: u.id, addresses: { intensity: 1, hue: 20, strobe: 30 } }
+			}
 		]);
 		const res = await as.programmer.get(`/api/projects/${p}/export.csv`);
 		expect(res.headers.get('content-type')).toContain('text/csv');
 		expect(res.headers.get('content-disposition')).toBe('attachment; filename="export-patch.csv"');
 		const rows = Papa.parse<Record<string, string>>(await res.text(), { header: true, skipEmptyLines: true }).data;
-		expect(rows[0]).toMatchObject({ number: '1', label: `'=HYPERLINK("http://x.invalid")`, notes: "'@SUM(A1)", universe: '2', address: '101', range: '2.101–111', slots: '11', control: 'dmx' });
-		expect(rows[1]).toMatchObject({ label: "'-neg", control: 'dmx-map', universe: '', address: '', range: 'intensity 2.1–2; hue 2.20–21; strobe 2.30' });
+		expect(rows[0]).toMatchObject({
+			number: '1',
+			label: `'=HYPERLINK("http://x.invalid")`,
+			notes: "'@SUM(A1)",
+			universe: '2',
+			address: '101',
+			range: '2.101–111',
+			slots: '11',
+			control: 'dmx'
+		});
+		expect(rows[1]).toMatchObject({
+			label: "'-neg",
+			control: 'dmx-map',
+			universe: '',
+			address: '',
+			range: 'intensity 2.1–2; hue 2.20–21; strobe 2.30'
+		});
 	});
 
 	it('JSON round trip: export → import as a new project → export equals the first, ids and times aside', async () => {
 		const p = await newProject('Round trip');
-		await as.programmer.patch(`/api/projects/${p}`, { venue: 'Quay 4', notes: 'river unit', artnetOffset: 0, version: 1 });
+		await as.programmer.patch(`/api/projects/${p}`, {
+			venue: 'Quay 4',
+			notes: 'river unit',
+			artnetOffset: 0,
+			version: 1
+		});
 		const type = await makePanelType(p);
 		const [basic, hsi] = type.modes.map((m: { id: number }) => m.id);
-		const u1 = await (await as.programmer.post(`/api/projects/${p}/universes`, { number: 1, name: 'Dock', transport: 'sacn', notes: 'node A' })).json();
-		const rx = await (await as.programmer.post(`/api/projects/${p}/receivers`, { name: 'Car rig', protocol: 'crsf', labels: { 1: 'left stick', 3: 'knob' } })).json();
+		const u1 = await (
+			await as.programmer.post(`/api/projects/${p}/universes`, {
+				number: 1,
+				name: 'Dock',
+				transport: 'sacn',
+				notes: 'node A'
+			})
+		).json();
+		const rx = await (
+			await as.programmer.post(`/api/projects/${p}/receivers`, {
+				name: 'Car rig',
+				protocol: 'crsf',
+				labels: { 1: 'left stick', 3: 'knob' }
+			})
+		).json();
 		const made = await (
 			await as.programmer.post(`/api/projects/${p}/fixtures`, [
-				{ number: 10, label: 'Leader', typeId: type.id, modeId: basic, linkGroup: 'L1', position: 'Mast', group: 'Keys', colour: 'amber', watts: 200, state: 'hung', look: { cct: 5600, intensity: 80 }, control: { kind: 'dmx', universeId: u1.id, address: 1 } },
-				{ number: 11, label: 'Mapped', typeId: type.id, modeId: hsi, control: { kind: 'dmx-map', universeId: u1.id, addresses: { intensity: 40, hue: 50 } } },
-				{ number: 12, label: 'Radio', typeId: type.id, modeId: basic, control: { kind: 'rc', receiverId: rx.id, channels: { intensity: 1, cct: 2 } } },
+				{
+					number: 10,
+					label: 'Leader',
+					typeId: type.id,
+					modeId: basic,
+					linkGroup: 'L1',
+					position: 'Mast',
+					group: 'Keys',
+					colour: 'amber',
+					watts: 200,
+					state: 'hung',
+					look: { cct: 5600, intensity: 80 },
+					control: { kind: 'dmx', universeId: u1.id, address: 1 }
+				},
+				{
+					number: 11,
+					label: 'Mapped',
+					typeId: type.id,
+					modeId: hsi,
+					control: { kind: 'dmx-map', universeId: u1.id, addresses: { intensity: 40, hue: 50 } }
+				},
+				{
+					number: 12,
+					label: 'Radio',
+					typeId: type.id,
+					modeId: basic,
+					control: { kind: 'rc', receiverId: rx.id, channels: { intensity: 1, cct: 2 } }
+				},
 				{ number: 14, label: 'Manual', typeId: type.id, modeId: basic }
 			])
 		).json();
-		await as.programmer.post(`/api/projects/${p}/fixtures`, { number: 13, label: 'Follower', typeId: type.id, modeId: basic, control: { kind: 'follow', leaderId: made.fixtures[0].id } });
+		await as.programmer.post(`/api/projects/${p}/fixtures`, {
+			number: 13,
+			label: 'Follower',
+			typeId: type.id,
+			modeId: basic,
+			control: { kind: 'follow', leaderId: made.fixtures[0].id }
+		});
 
 		const first = await (await as.programmer.get(`/api/projects/${p}/export.json`)).json();
 		expect(first).toMatchObject({ format: 'patchwright-project', version: 1 });
-		const imported = await as.owner.fetch('/api/projects/import-json', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(first) });
+		const imported = await as.owner.fetch('/api/projects/import-json', {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: JSON.stringify(first)
+		});
 		expect(imported.status).toBe(201);
 		const project = await imported.json();
 		expect(project).toMatchObject({ name: 'Round trip', venue: 'Quay 4', role: 'owner' });
@@ -250,12 +366,28 @@ describe('exports', () => {
 
 	it('JSON import refuses a foreign file with 422 and creates no project', async () => {
 		const before = (await (await as.programmer.get('/api/projects')).json()).projects.length;
-		const bad = await upload(as.programmer, '/api/projects/import-json', JSON.stringify({ format: 'something-else', version: 1 }), 'x.json');
+		const bad = await upload(
+			as.programmer,
+			'/api/projects/import-json',
+			JSON.stringify({ format: 'something-else', version: 1 }),
+			'x.json'
+		);
 		expect(bad.status).toBe(422);
-		const broken = { format: 'patchwright-project', version: 1, project: { name: 'X' }, universes: [], types: [], receivers: [], fixtures: [{ id: 1, number: 1, typeId: 99, modeId: 98 }] };
+		const broken = {
+			format: 'patchwright-project',
+			version: 1,
+			project: { name: 'X' },
+			universes: [],
+			types: [],
+			receivers: [],
+			fixtures: [{ id: 1, number: 1, typeId: 99, modeId: 98 }]
+		};
 		const dangling = await as.programmer.post('/api/projects/import-json', broken);
 		expect(dangling.status).toBe(422);
-		expect((await dangling.json()).error.issues.map((i: { field: string }) => i.field)).toEqual(['fixtures.0.typeId', 'fixtures.0.modeId']);
+		expect((await dangling.json()).error.issues.map((i: { field: string }) => i.field)).toEqual([
+			'fixtures.0.typeId',
+			'fixtures.0.modeId'
+		]);
 		expect((await (await as.programmer.get('/api/projects')).json()).projects.length).toBe(before);
 	});
 });
@@ -290,7 +422,12 @@ describe('hostile uploads are refused cleanly, nothing is written, the server ke
 		expect(crowd.status).toBe(400);
 		expect((await crowd.json()).error.code).toBe('zip-entries');
 		for (const name of ['../../etc/evil.xml', '/abs/path.xml', 'models\\x.3ds']) {
-			const res = await importTo(pid, zipSync({ [name]: strToU8('x'), 'description.xml': strToU8(PANEL_XML) }), 'trav.gdtf', true);
+			const res = await importTo(
+				pid,
+				zipSync({ [name]: strToU8('x'), 'description.xml': strToU8(PANEL_XML) }),
+				'trav.gdtf',
+				true
+			);
 			expect(res.status).toBe(400);
 			expect((await res.json()).error.code).toBe('zip-path');
 		}
@@ -299,8 +436,14 @@ describe('hostile uploads are refused cleanly, nothing is written, the server ke
 	});
 
 	it('XML with a DOCTYPE or entities (billion laughs, external entity): 400 before parsing', async () => {
-		const laughs = PANEL_XML.replace('<GDTF', '<!DOCTYPE GDTF [<!ENTITY a "aaaaaaaaaa"><!ENTITY b "&a;&a;&a;&a;&a;&a;&a;&a;&a;&a;">]><GDTF').replace('Name="Tidepanel"', 'Name="&b;"');
-		const xxe = PANEL_XML.replace('<GDTF', '<!DOCTYPE GDTF [<!ENTITY x SYSTEM "file:///etc/passwd">]><GDTF').replace('Name="Tidepanel"', 'Name="&x;"');
+		const laughs = PANEL_XML.replace(
+			'<GDTF',
+			'<!DOCTYPE GDTF [<!ENTITY a "aaaaaaaaaa"><!ENTITY b "&a;&a;&a;&a;&a;&a;&a;&a;&a;&a;">]><GDTF'
+		).replace('Name="Tidepanel"', 'Name="&b;"');
+		const xxe = PANEL_XML.replace('<GDTF', '<!DOCTYPE GDTF [<!ENTITY x SYSTEM "file:///etc/passwd">]><GDTF').replace(
+			'Name="Tidepanel"',
+			'Name="&x;"'
+		);
 		for (const xml of [laughs, xxe]) {
 			const res = await importTo(pid, gdtfZip(xml), 'dtd.gdtf', true);
 			expect(res.status).toBe(400);

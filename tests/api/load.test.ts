@@ -8,7 +8,9 @@ import { runLoad } from '../load/load';
 describe('under load', () => {
 	it('50 connections of mixed reads and version-checked writes: zero 5xx, zero errors, zero timeouts', async () => {
 		const r = await runLoad({ seconds: 10, connections: 50 });
-		console.log(`load (npm test): ${r.requests} requests, ${r.rps.toFixed(1)} req/s, p99 ${r.p99} ms, ${r.writesOk} writes, ${r.conflicts409} × 409`);
+		console.log(
+			`load (npm test): ${r.requests} requests, ${r.rps.toFixed(1)} req/s, p99 ${r.p99} ms, ${r.writesOk} writes, ${r.conflicts409} × 409`
+		);
 		expect(r.status5xx).toBe(0);
 		expect(r.errors).toBe(0);
 		expect(r.timeouts).toBe(0);

@@ -32,10 +32,15 @@ afterAll(() => server?.stop());
 
 describe('no lost update', () => {
 	it(`${N} concurrent PATCHes with the same version: exactly one 200, the rest 409 with the winner as current`, async () => {
-		const start = (await (await programmers[1].get(`/api/projects/${pid}/fixtures/${fixtureId}`)).json()).version as number;
+		const start = (await (await programmers[1].get(`/api/projects/${pid}/fixtures/${fixtureId}`)).json())
+			.version as number;
 		const results = await Promise.all(
 			programmers.map(async (client, i) => {
-				const body = { label: `WRITER ${i}`, control: { kind: 'dmx', universeId, address: 10 + i * 20 }, version: start };
+				const body = {
+					label: `WRITER ${i}`,
+					control: { kind: 'dmx', universeId, address: 10 + i * 20 },
+					version: start
+				};
 				const res = await client.patch(`/api/projects/${pid}/fixtures/${fixtureId}`, body);
 				return { i, status: res.status, body: await res.json() };
 			})
@@ -53,14 +58,20 @@ describe('no lost update', () => {
 		const row = server.db().select().from(fixtures).where(eq(fixtures.id, fixtureId)).get()!;
 		expect(row).toMatchObject({ label: `WRITER ${w}`, address: 10 + w * 20, universeId, version: start + 1 });
 		const got = await (await programmers[1].get(`/api/projects/${pid}/fixtures/${fixtureId}`)).json();
-		expect(got).toMatchObject({ label: `WRITER ${w}`, control: { kind: 'dmx', universeId, address: 10 + w * 20 }, version: start + 1 });
+		expect(got).toMatchObject({
+			label: `WRITER ${w}`,
+			control: { kind: 'dmx', universeId, address: 10 + w * 20 },
+			version: start + 1
+		});
 	});
 
 	it(`${N} concurrent bulk PATCHes naming the same fixture: one batch wins whole, the others write nothing`, async () => {
 		const a = (await (await programmers[1].get(`/api/projects/${pid}/fixtures/${fixtureId}`)).json()).version as number;
 		const results = await Promise.all(
 			programmers.map(async (client, i) => {
-				const res = await client.patch(`/api/projects/${pid}/fixtures`, { fixtures: [{ id: fixtureId, notes: `batch ${i}`, version: a }] });
+				const res = await client.patch(`/api/projects/${pid}/fixtures`, {
+					fixtures: [{ id: fixtureId, notes: `batch ${i}`, version: a }]
+				});
 				return { i, status: res.status };
 			})
 		);

@@ -16,7 +16,11 @@ const as = (who: 'owner' | 'programmer' | 'electrician' | 'viewer' | 'outsider')
 
 async function caughtMail(to: string) {
 	for (let i = 0; i < 50; i++) {
-		const mails = (await (await fetch(`${server.url}/dev/mail.json`)).json()) as { to: string; subject: string; text: string }[];
+		const mails = (await (await fetch(`${server.url}/dev/mail.json`)).json()) as {
+			to: string;
+			subject: string;
+			text: string;
+		}[];
 		const mail = mails.find((m) => m.to.includes(to));
 		if (mail) return mail;
 		await new Promise((r) => setTimeout(r, 100));
@@ -60,7 +64,9 @@ describe('requireRole on project routes', () => {
 	it('a project page sends the signed-out to sign in and back, and refuses a non-member with 404', async () => {
 		const signedOut = await server.anonymous().get(`/projects/${crew.project.id}/fixtures/7?from=label`);
 		expect(signedOut.status).toBe(303);
-		expect(signedOut.headers.get('location')).toBe(`/signin?callbackUrl=${encodeURIComponent(`/projects/${crew.project.id}/fixtures/7?from=label`)}`);
+		expect(signedOut.headers.get('location')).toBe(
+			`/signin?callbackUrl=${encodeURIComponent(`/projects/${crew.project.id}/fixtures/7?from=label`)}`
+		);
 		expect((await (await as('outsider')).get(`/projects/${crew.project.id}`)).status).toBe(404);
 		expect((await (await as('viewer')).get(`/projects/${crew.project.id}`)).status).toBe(200);
 	});
@@ -101,9 +107,15 @@ describe('members and invitations', () => {
 	it('an owner adds an existing account at once; a programmer may not', async () => {
 		const someone = await makeUser(server.db());
 		const programmer = await as('programmer');
-		expect((await programmer.post(`/api/projects/${crew.project.id}/members`, { email: someone.email, role: 'viewer' })).status).toBe(403);
+		expect(
+			(await programmer.post(`/api/projects/${crew.project.id}/members`, { email: someone.email, role: 'viewer' }))
+				.status
+		).toBe(403);
 		const owner = await as('owner');
-		const res = await owner.post(`/api/projects/${crew.project.id}/members`, { email: someone.email, role: 'electrician' });
+		const res = await owner.post(`/api/projects/${crew.project.id}/members`, {
+			email: someone.email,
+			role: 'electrician'
+		});
 		expect(res.status).toBe(201);
 		expect(await res.json()).toMatchObject({ status: 'member', role: 'electrician' });
 		const joined = await server.signIn(someone.email!, PASSWORD);
@@ -144,7 +156,9 @@ describe('members and invitations', () => {
 		expect(demote.status).toBe(409);
 		expect((await demote.json()).error.code).toBe('last-owner');
 		expect((await owner.delete(path)).status).toBe(409);
-		const res = await owner.patch(`/api/projects/${crew.project.id}/members/${crew.crew.viewer.id}`, { role: 'electrician' });
+		const res = await owner.patch(`/api/projects/${crew.project.id}/members/${crew.crew.viewer.id}`, {
+			role: 'electrician'
+		});
 		expect(res.status).toBe(200);
 		expect((await res.json()).role).toBe('electrician');
 		await owner.patch(`/api/projects/${crew.project.id}/members/${crew.crew.viewer.id}`, { role: 'viewer' });

@@ -93,20 +93,40 @@ describe('RC assignment', () => {
 	it('assigns adjacent channels per fixture; a link group shares one block; apply:false previews', async () => {
 		const db = server.db();
 		const r = makeReceiver(db, pid, 'sbus', 'Car rig');
-		const t = makeType(db, pid, { ihs: [{ offset: 1, parameter: 'intensity' }, { offset: 2, parameter: 'hue' }, { offset: 3, parameter: 'saturation' }] });
-		const mk = (number: number, linkGroup: string | null) => makeFixture(db, { projectId: pid, number, typeId: t.type.id, modeId: t.modeIds.ihs, linkGroup, controlKind: 'rc', receiverId: r.id, rcChannels: {} });
+		const t = makeType(db, pid, {
+			ihs: [
+				{ offset: 1, parameter: 'intensity' },
+				{ offset: 2, parameter: 'hue' },
+				{ offset: 3, parameter: 'saturation' }
+			]
+		});
+		const mk = (number: number, linkGroup: string | null) =>
+			makeFixture(db, {
+				projectId: pid,
+				number,
+				typeId: t.type.id,
+				modeId: t.modeIds.ihs,
+				linkGroup,
+				controlKind: 'rc',
+				receiverId: r.id,
+				rcChannels: {}
+			});
 		const [a, b, c] = [mk(11, null), mk(12, 'pair'), mk(13, 'pair')];
 		const preview = await as.programmer.post(`/api/projects/${pid}/receivers/${r.id}/assign`, { apply: false });
 		expect(preview.status).toBe(200);
 		const p = await preview.json();
-		const of = (id: number) => p.assigned.filter((x: { fixtureId: number }) => x.fixtureId === id).map((x: { channel: number }) => x.channel);
+		const of = (id: number) =>
+			p.assigned.filter((x: { fixtureId: number }) => x.fixtureId === id).map((x: { channel: number }) => x.channel);
 		expect(of(a.id)).toEqual([1, 2, 3]);
 		expect(of(b.id)).toEqual([4, 5, 6]);
 		expect(of(c.id)).toEqual([4, 5, 6]);
 		expect(db.select().from(fixtures).where(eq(fixtures.id, a.id)).get()!.rcChannels).toEqual({});
 		const applied = await as.programmer.post(`/api/projects/${pid}/receivers/${r.id}/assign`);
 		expect((await applied.json()).applied).toBe(true);
-		expect(db.select().from(fixtures).where(eq(fixtures.id, c.id)).get()).toMatchObject({ rcChannels: { intensity: 4, hue: 5, saturation: 6 }, version: 2 });
+		expect(db.select().from(fixtures).where(eq(fixtures.id, c.id)).get()).toMatchObject({
+			rcChannels: { intensity: 4, hue: 5, saturation: 6 },
+			version: 2
+		});
 		expect((await as.electrician.post(`/api/projects/${pid}/receivers/${r.id}/assign`)).status).toBe(403);
 	});
 
@@ -114,14 +134,34 @@ describe('RC assignment', () => {
 		const db = server.db();
 		// PPM carries 8 channels (common practice): three 3-parameter fixtures need 9
 		const r = makeReceiver(db, pid, 'ppm', 'Balloon');
-		const t = makeType(db, pid, { ihs: [{ offset: 1, parameter: 'intensity' }, { offset: 2, parameter: 'hue' }, { offset: 3, parameter: 'saturation' }] });
-		const ids = [21, 22, 23].map((n) => makeFixture(db, { projectId: pid, number: n, typeId: t.type.id, modeId: t.modeIds.ihs, controlKind: 'rc', receiverId: r.id, rcChannels: {} }).id);
+		const t = makeType(db, pid, {
+			ihs: [
+				{ offset: 1, parameter: 'intensity' },
+				{ offset: 2, parameter: 'hue' },
+				{ offset: 3, parameter: 'saturation' }
+			]
+		});
+		const ids = [21, 22, 23].map(
+			(n) =>
+				makeFixture(db, {
+					projectId: pid,
+					number: n,
+					typeId: t.type.id,
+					modeId: t.modeIds.ihs,
+					controlKind: 'rc',
+					receiverId: r.id,
+					rcChannels: {}
+				}).id
+		);
 		const res = await (await as.programmer.post(`/api/projects/${pid}/receivers/${r.id}/assign`, {})).json();
 		expect(res.assigned.filter((x: { fixtureId: number }) => x.fixtureId === ids[2])).toEqual([]);
 		expect(res.unassigned).toHaveLength(3);
 		expect(res.unassigned[0]).toMatchObject({ fixtureId: ids[2], parameter: 'intensity' });
 		expect(res.unassigned[0].reason).toContain('needs 3 adjacent free channels');
-		const conflicts = (await (await as.viewer.get(`/api/projects/${pid}/conflicts`)).json()).conflicts as { kind: string; fixtureIds: number[] }[];
+		const conflicts = (await (await as.viewer.get(`/api/projects/${pid}/conflicts`)).json()).conflicts as {
+			kind: string;
+			fixtureIds: number[];
+		}[];
 		expect(conflicts.some((c) => c.kind === 'rc-unassigned' && c.fixtureIds.includes(ids[2]))).toBe(true);
 	});
 
@@ -129,12 +169,35 @@ describe('RC assignment', () => {
 		const db = server.db();
 		const r = makeReceiver(db, pid, 'crsf', 'Drone');
 		const t = makeType(db, pid, { i: [{ offset: 1, parameter: 'intensity' }] });
-		const kept = makeFixture(db, { projectId: pid, number: 31, typeId: t.type.id, modeId: t.modeIds.i, controlKind: 'rc', receiverId: r.id, rcChannels: { intensity: 1 } });
-		const fresh = makeFixture(db, { projectId: pid, number: 32, typeId: t.type.id, modeId: t.modeIds.i, controlKind: 'rc', receiverId: r.id, rcChannels: { intensity: 1 } });
-		const res = await (await as.programmer.post(`/api/projects/${pid}/receivers/${r.id}/assign`, { fixtureIds: [fresh.id] })).json();
+		const kept = makeFixture(db, {
+			projectId: pid,
+			number: 31,
+			typeId: t.type.id,
+			modeId: t.modeIds.i,
+			controlKind: 'rc',
+			receiverId: r.id,
+			rcChannels: { intensity: 1 }
+		});
+		const fresh = makeFixture(db, {
+			projectId: pid,
+			number: 32,
+			typeId: t.type.id,
+			modeId: t.modeIds.i,
+			controlKind: 'rc',
+			receiverId: r.id,
+			rcChannels: { intensity: 1 }
+		});
+		const res = await (
+			await as.programmer.post(`/api/projects/${pid}/receivers/${r.id}/assign`, { fixtureIds: [fresh.id] })
+		).json();
 		expect(res.assigned).toEqual([{ fixtureId: fresh.id, parameter: 'intensity', channel: 2 }]);
-		expect(db.select().from(fixtures).where(eq(fixtures.id, kept.id)).get()).toMatchObject({ rcChannels: { intensity: 1 }, version: 1 });
-		const stray = await as.programmer.post(`/api/projects/${pid}/receivers/${r.id}/assign`, { fixtureIds: [fixtureId] });
+		expect(db.select().from(fixtures).where(eq(fixtures.id, kept.id)).get()).toMatchObject({
+			rcChannels: { intensity: 1 },
+			version: 1
+		});
+		const stray = await as.programmer.post(`/api/projects/${pid}/receivers/${r.id}/assign`, {
+			fixtureIds: [fixtureId]
+		});
 		expect(stray.status).toBe(400);
 	});
 });

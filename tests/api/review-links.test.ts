@@ -64,12 +64,20 @@ describe('review links', () => {
 		expect(res.status).toBe(200);
 		const body = await res.json();
 		expect(body.revision).toMatchObject({ number: 1, note: 'First pass', author: 'Pim Programmer' });
-		expect(body.project).toEqual({ name: 'The Lantern Ferry — river unit', venue: 'Moored ferry, north quay (invented)', startsOn: '2027-03-08', endsOn: '2027-03-19' });
+		expect(body.project).toEqual({
+			name: 'The Lantern Ferry — river unit',
+			venue: 'Moored ferry, north quay (invented)',
+			startsOn: '2027-03-08',
+			endsOn: '2027-03-19'
+		});
 		expect(body.patch.fixtures).toHaveLength(46);
 		expect(body.patch.summary.errors).toBeGreaterThan(0);
 		expect(body.diff).toBeNull();
 		// the project API stays closed to a token holder, however the token is presented
-		const presented: Record<string, string>[] = [{ authorization: `Bearer ${token}` }, { cookie: `authjs.session-token=${token}` }];
+		const presented: Record<string, string>[] = [
+			{ authorization: `Bearer ${token}` },
+			{ cookie: `authjs.session-token=${token}` }
+		];
 		for (const headers of presented) {
 			for (const path of [`/api/projects/${pid}/revisions/2`, `/api/projects/${pid}/patch`, `/api/projects`]) {
 				expect((await anon.fetch(path, { headers })).status).toBe(401);
@@ -98,10 +106,21 @@ describe('review links', () => {
 		let res = await server.anonymous().get(`/api/review/${tokenOf(revoked.url)}`);
 		expect(res.status).toBe(410);
 		expect((await res.json()).error).toMatchObject({ code: 'gone', message: expect.stringContaining('withdrawn') });
-		expect((await server.anonymous().post(`/api/review/${tokenOf(revoked.url)}/signoff`, { name: 'X', decision: 'approved', comment: '' })).status).toBe(410);
+		expect(
+			(
+				await server
+					.anonymous()
+					.post(`/api/review/${tokenOf(revoked.url)}/signoff`, { name: 'X', decision: 'approved', comment: '' })
+			).status
+		).toBe(410);
 
 		const expired = await makeLink(programmer, { revision: 2, expiresInDays: 1 });
-		server.db().update(reviewLinks).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(reviewLinks.id, expired.id)).run();
+		server
+			.db()
+			.update(reviewLinks)
+			.set({ expiresAt: new Date(Date.now() - 1000) })
+			.where(eq(reviewLinks.id, expired.id))
+			.run();
 		res = await server.anonymous().get(`/api/review/${tokenOf(expired.url)}`);
 		expect(res.status).toBe(410);
 		expect((await res.json()).error.message).toContain('expired');
@@ -120,7 +139,9 @@ describe('review links', () => {
 		const user = await makeUser(server.db());
 		addMember(server.db(), empty.id, user.id, 'owner');
 		const them = await server.signIn(user.email!, PASSWORD);
-		const link = await (await them.post(`/api/projects/${empty.id}/review-links`, { revision: 'latest', expiresInDays: null })).json();
+		const link = await (
+			await them.post(`/api/projects/${empty.id}/review-links`, { revision: 'latest', expiresInDays: null })
+		).json();
 		expect(link.expiresAt).toBeNull();
 		let res = await server.anonymous().get(`/api/review/${tokenOf(link.url)}`);
 		expect(res.status).toBe(404);
@@ -136,13 +157,25 @@ describe('review links', () => {
 	it('a sign-off by link is stored under the given name and mailed to each owner and programmer', async () => {
 		const link = await makeLink(programmer, { revision: 2 });
 		const token = tokenOf(link.url);
-		const bad = await server.anonymous().post(`/api/review/${token}/signoff`, { name: '', decision: 'approved', comment: '' });
+		const bad = await server
+			.anonymous()
+			.post(`/api/review/${token}/signoff`, { name: '', decision: 'approved', comment: '' });
 		expect(bad.status).toBe(400);
-		const res = await server.anonymous().post(`/api/review/${token}/signoff`, { name: 'Pat Producer', decision: 'approved', comment: 'Go ahead' });
+		const res = await server
+			.anonymous()
+			.post(`/api/review/${token}/signoff`, { name: 'Pat Producer', decision: 'approved', comment: 'Go ahead' });
 		expect(res.status).toBe(201);
-		expect(await res.json()).toMatchObject({ decision: 'approved', name: 'Pat Producer', comment: 'Go ahead', revision: 2, stale: false });
+		expect(await res.json()).toMatchObject({
+			decision: 'approved',
+			name: 'Pat Producer',
+			comment: 'Go ahead',
+			revision: 2,
+			stale: false
+		});
 		const revision = await (await viewer.get(`/api/projects/${pid}/revisions/2`)).json();
-		expect(revision.signoffs).toEqual([expect.objectContaining({ decision: 'approved', name: 'Pat Producer', comment: 'Go ahead' })]);
+		expect(revision.signoffs).toEqual([
+			expect.objectContaining({ decision: 'approved', name: 'Pat Producer', comment: 'Go ahead' })
+		]);
 
 		const mails = await waitForMail(server, (m) => m.subject.includes('approved by Pat Producer'), 2);
 		expect(mails.map((m) => m.to).sort()).toEqual(['owner@demo.test', 'programmer@demo.test']);
@@ -158,9 +191,16 @@ describe('review links', () => {
 		const body = await (await server.anonymous().get(`/api/review/${tokenOf(link.url)}`)).json();
 		expect(body.revision.number).toBe(3);
 		expect(body.diff.since).toBe(2);
-		expect(body.diff.changed).toEqual([{ fixtureId: a.id, number: a.number, label: a.label, fields: [{ field: 'control.address', before: a.address, after: 480 }] }]);
+		expect(body.diff.changed).toEqual([
+			{
+				fixtureId: a.id,
+				number: a.number,
+				label: a.label,
+				fields: [{ field: 'control.address', before: a.address, after: 480 }]
+			}
+		]);
 		// the approval of revision 2 is now stale
-		expect(((await (await viewer.get(`/api/projects/${pid}/revisions/2`)).json()).signoffs[0].stale)).toBe(true);
+		expect((await (await viewer.get(`/api/projects/${pid}/revisions/2`)).json()).signoffs[0].stale).toBe(true);
 	});
 
 	it('a link can be e-mailed to the producer', async () => {

@@ -68,7 +68,10 @@ describe('revisions', () => {
 		expect(one.patch.conflicts.some((c: { kind: string }) => c.kind === 'overlap')).toBe(true);
 
 		// edit the live rows behind the API's back: rename a, re-address b
-		db.update(fixtures).set({ label: 'RENAMED KEY', version: a.version + 1 }).where(eq(fixtures.id, a.id)).run();
+		db.update(fixtures)
+			.set({ label: 'RENAMED KEY', version: a.version + 1 })
+			.where(eq(fixtures.id, a.id))
+			.run();
 		db.update(fixtures).set({ address: 500 }).where(eq(fixtures.id, b.id)).run();
 
 		const again = await (await viewer.get(`/api/projects/${pid}/revisions/1`)).json();
@@ -91,7 +94,11 @@ describe('revisions', () => {
 		expect(diff.added).toEqual([]);
 		expect(diff.removed).toEqual([]);
 		const byId = new Map(diff.changed.map((c: { fixtureId: number }) => [c.fixtureId, c]));
-		expect(byId.get(a.id)).toMatchObject({ number: a.number, label: 'RENAMED KEY', fields: [{ field: 'label', after: 'RENAMED KEY' }] });
+		expect(byId.get(a.id)).toMatchObject({
+			number: a.number,
+			label: 'RENAMED KEY',
+			fields: [{ field: 'label', after: 'RENAMED KEY' }]
+		});
 		expect(byId.get(b.id)).toMatchObject({ number: b.number, fields: [{ field: 'control.address', after: 500 }] });
 		expect(diff.changed).toHaveLength(2);
 	});
@@ -101,7 +108,14 @@ describe('revisions', () => {
 		server.db().update(fixtures).set({ notes: 'gel changed' }).where(eq(fixtures.id, a.id)).run();
 		const diff = await (await viewer.get(`/api/projects/${pid}/revisions/2/diff?against=live`)).json();
 		expect(diff.after).toEqual({ revision: 'live' });
-		expect(diff.changed).toEqual([{ fixtureId: a.id, number: a.number, label: 'RENAMED KEY', fields: [{ field: 'notes', before: a.notes, after: 'gel changed' }] }]);
+		expect(diff.changed).toEqual([
+			{
+				fixtureId: a.id,
+				number: a.number,
+				label: 'RENAMED KEY',
+				fields: [{ field: 'notes', before: a.notes, after: 'gel changed' }]
+			}
+		]);
 		expect((await viewer.get(`/api/projects/${pid}/revisions/2/diff`)).status).toBe(400);
 		expect((await viewer.get(`/api/projects/${pid}/revisions/2/diff?against=9`)).status).toBe(404);
 		expect((await viewer.get(`/api/projects/${pid}/revisions/9`)).status).toBe(404);
@@ -117,9 +131,17 @@ describe('revisions', () => {
 	});
 
 	it('a member signs off; owners and programmers get one mail each; the approval goes stale once a later revision exists', async () => {
-		const res = await viewer.post(`/api/projects/${pid}/revisions/2/signoffs`, { decision: 'approved', comment: 'Fine by me' });
+		const res = await viewer.post(`/api/projects/${pid}/revisions/2/signoffs`, {
+			decision: 'approved',
+			comment: 'Fine by me'
+		});
 		expect(res.status).toBe(201);
-		expect(await res.json()).toMatchObject({ decision: 'approved', name: 'Vera Viewer', comment: 'Fine by me', stale: false });
+		expect(await res.json()).toMatchObject({
+			decision: 'approved',
+			name: 'Vera Viewer',
+			comment: 'Fine by me',
+			stale: false
+		});
 
 		const mails = await waitForMail(server, (m) => m.subject.includes('revision 2 approved by Vera Viewer'), 2);
 		expect(mails.map((m) => m.to).sort()).toEqual(['owner@demo.test', 'programmer@demo.test']);
@@ -131,7 +153,9 @@ describe('revisions', () => {
 
 		let list = (await (await viewer.get(`/api/projects/${pid}/revisions`)).json()).revisions;
 		expect(list.map((r: { number: number }) => r.number)).toEqual([2, 1]);
-		expect(list[0].signoffs).toEqual([expect.objectContaining({ decision: 'approved', name: 'Vera Viewer', stale: false })]);
+		expect(list[0].signoffs).toEqual([
+			expect.objectContaining({ decision: 'approved', name: 'Vera Viewer', stale: false })
+		]);
 
 		expect((await programmer.post(`/api/projects/${pid}/revisions`, { note: 'Night two' })).status).toBe(201);
 		list = (await (await viewer.get(`/api/projects/${pid}/revisions`)).json()).revisions;
@@ -144,6 +168,8 @@ describe('revisions', () => {
 		const res = await viewer.post(`/api/projects/${pid}/revisions/3/signoffs`, { decision: 'maybe', comment: '' });
 		expect(res.status).toBe(400);
 		expect((await (await viewer.get(`/api/projects/${pid}/revisions/3`)).json()).signoffs).toEqual([]);
-		expect((await outsider.post(`/api/projects/${pid}/revisions/3/signoffs`, { decision: 'approved', comment: '' })).status).toBe(404);
+		expect(
+			(await outsider.post(`/api/projects/${pid}/revisions/3/signoffs`, { decision: 'approved', comment: '' })).status
+		).toBe(404);
 	});
 });

@@ -35,7 +35,12 @@ describe('universes', () => {
 		expect(u.slotsUsed).toBe(0);
 		const list = await (await as.viewer.get(`${base()}/universes`)).json();
 		expect(list.universes.map((x: { number: number }) => x.number)).toContain(258);
-		const audit = server.db().select().from(auditLog).all().filter((a) => a.action === 'universe.create' && a.entityId === String(u.id));
+		const audit = server
+			.db()
+			.select()
+			.from(auditLog)
+			.all()
+			.filter((a) => a.action === 'universe.create' && a.entityId === String(u.id));
 		expect(audit).toHaveLength(1);
 	});
 
@@ -80,7 +85,15 @@ describe('universes', () => {
 		const db = server.db();
 		const u = makeUniverse(db, pid, 30);
 		const { type, modeIds } = makeType(db, pid, { basic: channels(4) });
-		const f = makeFixture(db, { projectId: pid, number: 3001, typeId: type.id, modeId: modeIds.basic, controlKind: 'dmx', universeId: u.id, address: 1 });
+		const f = makeFixture(db, {
+			projectId: pid,
+			number: 3001,
+			typeId: type.id,
+			modeId: modeIds.basic,
+			controlKind: 'dmx',
+			universeId: u.id,
+			address: 1
+		});
 		const refused = await as.programmer.delete(`${base()}/universes/${u.id}`);
 		expect(refused.status).toBe(409);
 		const body = await refused.json();
@@ -113,7 +126,11 @@ describe('fixture types (modes inline)', () => {
 	};
 
 	it('creates a type; a mode’s slots run from offset 1 to its highest channel’s last slot (DESIGN "Mode")', async () => {
-		const res = await as.programmer.post(`${base()}/types`, { maker: 'Testworks', model: 'Strip', modes: [rgbw16, { name: 'sparse', channels: [{ offset: 10, parameter: 'intensity', bits: 16 }] }] });
+		const res = await as.programmer.post(`${base()}/types`, {
+			maker: 'Testworks',
+			model: 'Strip',
+			modes: [rgbw16, { name: 'sparse', channels: [{ offset: 10, parameter: 'intensity', bits: 16 }] }]
+		});
 		expect(res.status).toBe(201);
 		const t = await res.json();
 		expect(t.modes.map((m: { slots: number }) => m.slots)).toEqual([6, 11]);
@@ -124,13 +141,20 @@ describe('fixture types (modes inline)', () => {
 
 	it('refuses two channels on one slot, bits outside 8/16/24, offset 0, and a footprint past 512', async () => {
 		const cases = [
-			[{ offset: 1, parameter: 'intensity', bits: 16 }, { offset: 2, parameter: 'hue', bits: 8 }],
+			[
+				{ offset: 1, parameter: 'intensity', bits: 16 },
+				{ offset: 2, parameter: 'hue', bits: 8 }
+			],
 			[{ offset: 1, parameter: 'intensity', bits: 12 }],
 			[{ offset: 0, parameter: 'intensity', bits: 8 }],
 			[{ offset: 511, parameter: 'intensity', bits: 24 }]
 		];
 		for (const chs of cases) {
-			const res = await as.programmer.post(`${base()}/types`, { maker: 'T', model: 'M', modes: [{ name: 'm', channels: chs }] });
+			const res = await as.programmer.post(`${base()}/types`, {
+				maker: 'T',
+				model: 'M',
+				modes: [{ name: 'm', channels: chs }]
+			});
 			expect(res.status).toBe(400);
 			const body = await res.json();
 			expect(body.error.issues[0].path.slice(0, 3)).toEqual(['modes', 0, 'channels']);
@@ -141,17 +165,32 @@ describe('fixture types (modes inline)', () => {
 		const db = server.db();
 		const { type, modeIds } = makeType(db, pid, { a: channels(2), b: channels(3), c: channels(1) });
 		const f = makeFixture(db, { projectId: pid, number: 4001, typeId: type.id, modeId: modeIds.a });
-		const dropUsed = await as.programmer.patch(`${base()}/types/${type.id}`, { version: 1, modes: [{ id: modeIds.b, name: 'b', channels: [] }] });
+		const dropUsed = await as.programmer.patch(`${base()}/types/${type.id}`, {
+			version: 1,
+			modes: [{ id: modeIds.b, name: 'b', channels: [] }]
+		});
 		expect(dropUsed.status).toBe(409);
 		expect((await dropUsed.json()).usedBy).toEqual([expect.objectContaining({ id: f.id, number: 4001 })]);
-		const ok = await as.programmer.patch(`${base()}/types/${type.id}`, { version: 1, modes: [{ id: modeIds.a, name: 'a renamed', channels: [{ offset: 1, parameter: 'intensity', bits: 16 }] }, { name: 'new', channels: [] }] });
+		const ok = await as.programmer.patch(`${base()}/types/${type.id}`, {
+			version: 1,
+			modes: [
+				{ id: modeIds.a, name: 'a renamed', channels: [{ offset: 1, parameter: 'intensity', bits: 16 }] },
+				{ name: 'new', channels: [] }
+			]
+		});
 		expect(ok.status).toBe(200);
 		const t = await ok.json();
 		expect(t.version).toBe(2);
 		expect(t.modes[0]).toMatchObject({ id: modeIds.a, name: 'a renamed', slots: 2 });
 		expect(t.modes).toHaveLength(2);
 		expect(t.modes.map((m: { id: number }) => m.id)).not.toContain(modeIds.c);
-		const foreign = await as.programmer.patch(`${base()}/types/${type.id}`, { version: 2, modes: [{ id: 999999, name: 'x', channels: [] }, { id: modeIds.a, name: 'a', channels: [] }] });
+		const foreign = await as.programmer.patch(`${base()}/types/${type.id}`, {
+			version: 2,
+			modes: [
+				{ id: 999999, name: 'x', channels: [] },
+				{ id: modeIds.a, name: 'a', channels: [] }
+			]
+		});
 		expect(foreign.status).toBe(400);
 	});
 
@@ -171,17 +210,31 @@ describe('fixture types (modes inline)', () => {
 
 describe('receivers', () => {
 	it('creates with labels; channel count per protocol (SBUS 16 + 2 digital, CRSF 16, PPM 8 — common practice)', async () => {
-		const res = await as.programmer.post(`${base()}/receivers`, { name: 'Crane', protocol: 'ppm', labels: { '1': 'left stick up/down' } });
+		const res = await as.programmer.post(`${base()}/receivers`, {
+			name: 'Crane',
+			protocol: 'ppm',
+			labels: { '1': 'left stick up/down' }
+		});
 		expect(res.status).toBe(201);
 		const r = await res.json();
 		expect(r).toMatchObject({ protocol: 'ppm', channelCount: 8, labels: { '1': 'left stick up/down' }, version: 1 });
-		const beyond = await as.programmer.post(`${base()}/receivers`, { name: 'Crane', protocol: 'ppm', labels: { '9': 'knob' } });
+		const beyond = await as.programmer.post(`${base()}/receivers`, {
+			name: 'Crane',
+			protocol: 'ppm',
+			labels: { '9': 'knob' }
+		});
 		expect(beyond.status).toBe(400);
 		expect((await beyond.json()).error.issues[0].path).toEqual(['labels', '9']);
 	});
 
 	it('PATCH replaces labels as a whole; a protocol change that strands labels is refused; stale is 409', async () => {
-		const r = await (await as.programmer.post(`${base()}/receivers`, { name: 'Car', protocol: 'sbus', labels: { '1': 'a', '17': 'switch A' } })).json();
+		const r = await (
+			await as.programmer.post(`${base()}/receivers`, {
+				name: 'Car',
+				protocol: 'sbus',
+				labels: { '1': 'a', '17': 'switch A' }
+			})
+		).json();
 		const shrink = await as.programmer.patch(`${base()}/receivers/${r.id}`, { protocol: 'crsf', version: 1 });
 		expect(shrink.status).toBe(400);
 		const ok = await as.programmer.patch(`${base()}/receivers/${r.id}`, { labels: { '2': 'b' }, version: 1 });
@@ -196,7 +249,15 @@ describe('receivers', () => {
 		const db = server.db();
 		const r = makeReceiver(db, pid);
 		const { type, modeIds } = makeType(db, pid, { m: channels(2) });
-		const f = makeFixture(db, { projectId: pid, number: 5001, typeId: type.id, modeId: modeIds.m, controlKind: 'rc', receiverId: r.id, rcChannels: { p1: 1, p2: 2 } });
+		const f = makeFixture(db, {
+			projectId: pid,
+			number: 5001,
+			typeId: type.id,
+			modeId: modeIds.m,
+			controlKind: 'rc',
+			receiverId: r.id,
+			rcChannels: { p1: 1, p2: 2 }
+		});
 		const refused = await as.programmer.delete(`${base()}/receivers/${r.id}`);
 		expect(refused.status).toBe(409);
 		expect((await refused.json()).usedBy[0].id).toBe(f.id);

@@ -30,7 +30,11 @@ describe('cross-site writes', () => {
 		const client = await server.signIn(user.email!, PASSWORD);
 		const res = await fetch(`${server.url}/api/projects`, {
 			method: 'POST',
-			headers: { 'content-type': 'text/plain', origin: 'http://evil.example', cookie: [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ') },
+			headers: {
+				'content-type': 'text/plain',
+				origin: 'http://evil.example',
+				cookie: [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ')
+			},
 			body: JSON.stringify({ name: 'planted' })
 		});
 		expect(res.status).toBe(403);
@@ -41,7 +45,11 @@ describe('cross-site writes', () => {
 	it('JSON from another origin gets no CORS grant, so a browser never sends it', async () => {
 		const res = await fetch(`${server.url}/api/projects`, {
 			method: 'OPTIONS',
-			headers: { origin: 'http://evil.example', 'access-control-request-method': 'POST', 'access-control-request-headers': 'content-type' }
+			headers: {
+				origin: 'http://evil.example',
+				'access-control-request-method': 'POST',
+				'access-control-request-headers': 'content-type'
+			}
 		});
 		expect(res.headers.get('access-control-allow-origin')).toBeNull();
 	});
@@ -49,7 +57,11 @@ describe('cross-site writes', () => {
 	it('a same-origin JSON write with the wrong content type answers 415 and writes nothing', async () => {
 		const user = await makeUser(server.db());
 		const client = await server.signIn(user.email!, PASSWORD);
-		const res = await client.fetch('/api/projects', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'name=x' });
+		const res = await client.fetch('/api/projects', {
+			method: 'POST',
+			headers: { 'content-type': 'application/x-www-form-urlencoded' },
+			body: 'name=x'
+		});
 		// SvelteKit's origin check passes (same origin), our readJson refuses the type
 		expect(res.status).toBe(415);
 		expect((await res.json()).error.code).toBe('unsupported-type');
@@ -69,10 +81,18 @@ describe('sign-in throttling', () => {
 		const user = await makeUser(server.db());
 		const client = server.anonymous();
 		for (let i = 0; i < 10; i++) {
-			const res = await client.form('/auth/callback/credentials', { email: user.email!, password: `wrong ${i}`, callbackUrl: '/' });
+			const res = await client.form('/auth/callback/credentials', {
+				email: user.email!,
+				password: `wrong ${i}`,
+				callbackUrl: '/'
+			});
 			expect(res.headers.get('location')).toContain('error=CredentialsSignin');
 		}
-		const right = await client.form('/auth/callback/credentials', { email: user.email!, password: PASSWORD, callbackUrl: '/' });
+		const right = await client.form('/auth/callback/credentials', {
+			email: user.email!,
+			password: PASSWORD,
+			callbackUrl: '/'
+		});
 		expect(right.headers.get('location')).toContain('error=CredentialsSignin');
 		expect(await client.session()).toBeNull();
 	}, 120_000); // ten argon2 verifications are slow on a loaded two-core machine
@@ -81,7 +101,11 @@ describe('sign-in throttling', () => {
 		const client = server.anonymous();
 		let throttled = false;
 		for (let i = 0; i < 40 && !throttled; i++) {
-			const res = await client.form('/auth/callback/credentials', { email: `nobody${i}@test.example`, password: 'guess', callbackUrl: '/' });
+			const res = await client.form('/auth/callback/credentials', {
+				email: `nobody${i}@test.example`,
+				password: 'guess',
+				callbackUrl: '/'
+			});
 			throttled = (res.headers.get('location') ?? '').includes('TooManyAttempts');
 		}
 		expect(throttled).toBe(true);

@@ -10,7 +10,13 @@ import { startServer, type Client, type TestServer } from '../helpers/server';
 interface Patch {
 	project: { id: number; name: string };
 	universes: { id: number; number: number }[];
-	fixtures: { id: number; number: number; label: string; control: { kind: string; universeId?: number; receiverId?: number }; slots: { start: number; end: number }[] }[];
+	fixtures: {
+		id: number;
+		number: number;
+		label: string;
+		control: { kind: string; universeId?: number; receiverId?: number };
+		slots: { start: number; end: number }[];
+	}[];
 	[k: string]: unknown;
 }
 
@@ -21,7 +27,13 @@ let patch: Patch;
 
 async function pdf(client: Client, path: string): Promise<Uint8Array> {
 	const res = await client.get(path);
-	expect(res.status, await res.clone().text().catch(() => '')).toBe(200);
+	expect(
+		res.status,
+		await res
+			.clone()
+			.text()
+			.catch(() => '')
+	).toBe(200);
 	expect(res.headers.get('content-type')).toBe('application/pdf');
 	return new Uint8Array(await res.arrayBuffer());
 }
@@ -41,7 +53,9 @@ afterAll(async () => {
 describe('patch sheet', () => {
 	it('lists every DMX-patched fixture of the demo with its label and address, page n of m on each page', async () => {
 		const res = await electrician.get(`/api/projects/${pid}/sheets/patch.pdf`);
-		expect(res.headers.get('content-disposition')).toBe('inline; filename="the-lantern-ferry-river-unit-patch-draft.pdf"');
+		expect(res.headers.get('content-disposition')).toBe(
+			'inline; filename="the-lantern-ferry-river-unit-patch-draft.pdf"'
+		);
 		const pages = await pdfPages(new Uint8Array(await res.arrayBuffer()));
 		const all = pages.map((p) => p.text).join(' ');
 		const number = new Map(patch.universes.map((u) => [u.id, u.number]));
@@ -90,8 +104,20 @@ describe('patch sheet', () => {
 			receivers: patch.receivers,
 			fixtures: patch.fixtures.map((f, i) => (i === 0 ? { ...f, label: 'SNAPSHOT ONLY' } : f))
 		};
-		const r1 = db.insert(revisions).values({ projectId: pid, number: 1, authorId: author.id, authorName: 'Pim', snapshot }).returning().get();
-		db.insert(signoffs).values({ projectId: pid, revisionId: r1.id, decision: 'approved', name: 'Petra Producer', createdAt: new Date('2026-04-02T12:00:00Z') }).run();
+		const r1 = db
+			.insert(revisions)
+			.values({ projectId: pid, number: 1, authorId: author.id, authorName: 'Pim', snapshot })
+			.returning()
+			.get();
+		db.insert(signoffs)
+			.values({
+				projectId: pid,
+				revisionId: r1.id,
+				decision: 'approved',
+				name: 'Petra Producer',
+				createdAt: new Date('2026-04-02T12:00:00Z')
+			})
+			.run();
 
 		const res = await electrician.get(`/api/projects/${pid}/sheets/patch.pdf?revision=1`);
 		expect(res.status).toBe(200);
@@ -102,7 +128,9 @@ describe('patch sheet', () => {
 		expect(text).toContain('r1 approved by Petra Producer on 2026-04-02');
 
 		db.insert(revisions).values({ projectId: pid, number: 2, authorId: author.id, authorName: 'Pim', snapshot }).run();
-		text = (await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/radio.pdf?revision=1`))).map((p) => p.text).join(' ');
+		text = (await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/radio.pdf?revision=1`)))
+			.map((p) => p.text)
+			.join(' ');
 		expect(text).toContain('stale');
 		expect(text).toContain('r2 is newer');
 
@@ -128,7 +156,13 @@ describe('label sheet', () => {
 				const x = grid.left + (i % 3) * grid.width;
 				const y = grid.top + Math.floor(i / 3) * grid.height;
 				// the QR sits in the right part of the cell; crop just inside the cut lines
-				const decoded = decodeQr(png, (x + grid.width * 0.45) * px, (y + 0.5 * MM) * px, grid.width * 0.55 * px - 2, (grid.height - 1 * MM) * px);
+				const decoded = decodeQr(
+					png,
+					(x + grid.width * 0.45) * px,
+					(y + 0.5 * MM) * px,
+					grid.width * 0.55 * px - 2,
+					(grid.height - 1 * MM) * px
+				);
 				expect(decoded, `label of fixture ${f.number}`).toBe(`${server.url}/projects/${pid}/fixtures/${f.number}`);
 				expect(pages[p].text).toContain(f.label);
 			});
@@ -137,7 +171,9 @@ describe('label sheet', () => {
 
 	it('prints a chosen set of fixtures on US Letter, and refuses unknown numbers', async () => {
 		const [a, b] = patch.fixtures;
-		const pages = await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/labels.pdf?fixtures=${b.number},${a.number}&paper=letter`));
+		const pages = await pdfPages(
+			await pdf(electrician, `/api/projects/${pid}/sheets/labels.pdf?fixtures=${b.number},${a.number}&paper=letter`)
+		);
 		expect(pages.length).toBe(1);
 		expect(Math.round(pages[0].width)).toBe(612);
 		expect(pages[0].text).toContain(a.label);
@@ -151,7 +187,9 @@ describe('label sheet', () => {
 
 describe('radio sheet', () => {
 	it('lists every RC fixture, the SBUS value range and the failsafe caution', async () => {
-		const text = (await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/radio.pdf`))).map((p) => p.text).join(' ');
+		const text = (await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/radio.pdf`)))
+			.map((p) => p.text)
+			.join(' ');
 		const rc = patch.fixtures.filter((f) => f.control.kind === 'rc');
 		expect(rc.length).toBeGreaterThan(0);
 		for (const f of rc) expect(text).toContain(`${f.number} ${f.label}`);
@@ -166,7 +204,9 @@ describe('access', () => {
 	it('lets every role print, answers 401 signed out, 404 to outsiders and 400 to a bad paper size', async () => {
 		for (const who of ['viewer', 'programmer', 'owner']) {
 			const client = await server.signIn(`${who}@demo.test`);
-			expect((await client.get(`/api/projects/${pid}/sheets/labels.pdf?fixtures=${patch.fixtures[0].number}`)).status).toBe(200);
+			expect(
+				(await client.get(`/api/projects/${pid}/sheets/labels.pdf?fixtures=${patch.fixtures[0].number}`)).status
+			).toBe(200);
 		}
 		expect((await server.anonymous().get(`/api/projects/${pid}/sheets/patch.pdf`)).status).toBe(401);
 		const outsider = await makeUser(server.db(), { email: `outsider-${Date.now()}@test.example` });

@@ -4,18 +4,20 @@ import { demoStage, screenshot, signInPage } from './launch';
 
 const stage = demoStage();
 
-
 describe('signing in through the pages (Chromium)', () => {
-	it.each(DEMO_USERS.map((u) => [u.role, u.email]))('the demo %s signs in and sees the demo project', async (role, email) => {
-		const page = await stage.browser.page();
-		await signInPage(page, stage.server.url, email);
-		await expect.poll(() => page.getByTestId('signed-in-as').textContent()).toBe(email);
-		const card = page.getByTestId('project-list').getByRole('link');
-		await expect.poll(() => card.count()).toBe(1);
-		expect(await card.textContent()).toContain(role);
-		if (role === 'owner') await screenshot(page, 'projects-list');
-		await page.close();
-	});
+	it.each(DEMO_USERS.map((u) => [u.role, u.email]))(
+		'the demo %s signs in and sees the demo project',
+		async (role, email) => {
+			const page = await stage.browser.page();
+			await signInPage(page, stage.server.url, email);
+			await expect.poll(() => page.getByTestId('signed-in-as').textContent()).toBe(email);
+			const card = page.getByTestId('project-list').getByRole('link');
+			await expect.poll(() => card.count()).toBe(1);
+			expect(await card.textContent()).toContain(role);
+			if (role === 'owner') await screenshot(page, 'projects-list');
+			await page.close();
+		}
+	);
 
 	it('a wrong password shows a clear error and stays signed out', async () => {
 		const page = await stage.browser.page();

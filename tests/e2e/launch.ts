@@ -48,7 +48,12 @@ export async function launchBrowser(): Promise<Browser> {
 }
 
 /** Signs in through the /signin form, as a person would. */
-export async function signInPage(page: Page, base: string, email: string, password = 'patchwright-demo'): Promise<void> {
+export async function signInPage(
+	page: Page,
+	base: string,
+	email: string,
+	password = 'patchwright-demo'
+): Promise<void> {
 	await page.goto(`${base}/signin`);
 	await page.getByLabel('E-mail', { exact: true }).fill(email);
 	await page.getByLabel('Password').fill(password);

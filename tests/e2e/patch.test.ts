@@ -30,7 +30,12 @@ describe('patch pages in the browser', () => {
 		await page.getByRole('search').getByLabel('Universe').selectOption({ label: '9 Test barge' });
 		await page.getByText('Add fixtures').click();
 		const form = page.locator('form', { has: page.getByRole('button', { name: 'Add', exact: true }) });
-		const modeLabel = await form.locator('select').first().locator('option', { hasText: 'HSIC 8-bit' }).first().textContent();
+		const modeLabel = await form
+			.locator('select')
+			.first()
+			.locator('option', { hasText: 'HSIC 8-bit' })
+			.first()
+			.textContent();
 		expect(modeLabel).toMatch(/\(4\)$/); // the demo's 4-slot HSIC 8-bit mode
 		for (const [label, address] of [
 			['BARGE A', '1'],
@@ -75,7 +80,9 @@ describe('patch pages in the browser', () => {
 		await dialog.getByRole('button', { name: 'Apply' }).click();
 		await page.locator('[data-notice]', { hasText: 'Placed 2' }).waitFor();
 		await expect.poll(() => conflictCells.nth(1).textContent()).toBe('');
-		expect(await page.locator('[data-row]', { hasText: 'BARGE B' }).locator('[data-col="control"]').textContent()).toContain('9.5');
+		expect(
+			await page.locator('[data-row]', { hasText: 'BARGE B' }).locator('[data-col="control"]').textContent()
+		).toContain('9.5');
 
 		await page.goto(`${stage.server.url}/projects/${pid}/universes/9`);
 		expect(await page.locator('[data-overlap]').count()).toBe(0);
@@ -117,7 +124,9 @@ describe('patch pages in the browser', () => {
 		expect(await page.getByText('Add a fixture type').count()).toBe(0);
 
 		const viewer = await stage.server.signIn('viewer@demo.test');
-		const patch = (await (await viewer.get(`/api/projects/${pid}/patch`)).json()) as { fixtures: { id: number; number: number; version: number }[] };
+		const patch = (await (await viewer.get(`/api/projects/${pid}/patch`)).json()) as {
+			fixtures: { id: number; number: number; version: number }[];
+		};
 		const f = patch.fixtures.find((x) => x.number === 101)!;
 		const res = await viewer.patch(`/api/projects/${pid}/fixtures/${f.id}`, { state: 'fault', version: f.version });
 		expect(res.status).toBe(403);

@@ -6,7 +6,6 @@ import { demoStage, screenshot, signInPage } from './launch';
 
 const stage = demoStage();
 
-
 describe('revision, review link and sign-off in the browser', () => {
 	it('a programmer makes a revision and a link, the producer approves on a phone without an account, the programmer sees it', async () => {
 		const pid = demoProjectId(stage.server.db());

@@ -1,4 +1,10 @@
-import { computeFor, type FixtureShape, type PatchData, type TypeShape, type UniverseShape } from '../../src/lib/server/db/patch';
+import {
+	computeFor,
+	type FixtureShape,
+	type PatchData,
+	type TypeShape,
+	type UniverseShape
+} from '../../src/lib/server/db/patch';
 
 // A large invented patch built in memory (no database), for pagination tests and
 // the sheet benchmarks: n fixtures of an 8-slot 16-bit mode, 64 to a universe.
@@ -15,14 +21,26 @@ export function bigPatch(n: number): PatchData {
 				id: 1,
 				name: 'HSIC 16-bit',
 				slots: 8,
-				channels: ['intensity', 'hue', 'saturation', 'cct'].map((parameter, i) => ({ offset: 1 + 2 * i, parameter, bits: 16 as const, default: 0 }))
+				channels: ['intensity', 'hue', 'saturation', 'cct'].map((parameter, i) => ({
+					offset: 1 + 2 * i,
+					parameter,
+					bits: 16 as const,
+					default: 0
+				}))
 			}
 		]
 	};
 	const perUniverse = 64;
 	const universes: UniverseShape[] = [];
 	for (let u = 1; u <= Math.ceil(n / perUniverse); u++) {
-		universes.push({ id: u, number: u, name: `Bench ${u}`, transport: u % 2 ? 'sacn' : 'artnet', notes: '', version: 1 });
+		universes.push({
+			id: u,
+			number: u,
+			name: `Bench ${u}`,
+			transport: u % 2 ? 'sacn' : 'artnet',
+			notes: '',
+			version: 1
+		});
 	}
 	const fixtures: FixtureShape[] = [];
 	for (let i = 0; i < n; i++) {
@@ -45,6 +63,17 @@ export function bigPatch(n: number): PatchData {
 		});
 	}
 	const now = new Date(0).toISOString();
-	const project = { id: 1, name: 'Bench rig', venue: '', startsOn: null, endsOn: null, notes: '', artnetOffset: 1, version: 1, createdAt: now, updatedAt: now };
+	const project = {
+		id: 1,
+		name: 'Bench rig',
+		venue: '',
+		startsOn: null,
+		endsOn: null,
+		notes: '',
+		artnetOffset: 1,
+		version: 1,
+		createdAt: now,
+		updatedAt: now
+	};
 	return computeFor(project, [type], universes, [], fixtures);
 }

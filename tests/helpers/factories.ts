@@ -58,7 +58,8 @@ export async function signInCrew(
 	outsider: { email: string }
 ): Promise<Record<Role | 'outsider', Client>> {
 	const clients = {} as Record<Role | 'outsider', Client>;
-	for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const) clients[role] = await server.signIn(crew[role].email, PASSWORD);
+	for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const)
+		clients[role] = await server.signIn(crew[role].email, PASSWORD);
 	clients.outsider = await server.signIn(outsider.email, PASSWORD);
 	return clients;
 }

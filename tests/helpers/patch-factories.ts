@@ -11,7 +11,11 @@ export interface ChannelSpec {
 }
 
 export function makeUniverse(db: Db, projectId: number, number: number, transport: 'dmx-wired' | 'sacn' = 'dmx-wired') {
-	return db.insert(universes).values({ projectId, number, name: `U${number}`, transport }).returning().get();
+	return db
+		.insert(universes)
+		.values({ projectId, number, name: `U${number}`, transport })
+		.returning()
+		.get();
 }
 
 /** A type with named modes; returns the type row and its modes' ids by name. */
@@ -23,7 +27,15 @@ export function makeType(db: Db, projectId: number, modeSpecs: Record<string, Ch
 		modeIds[name] = mode.id;
 		if (channels.length) {
 			db.insert(modeChannels)
-				.values(channels.map((c, i) => ({ modeId: mode.id, position: i, offset: c.offset, parameter: c.parameter, bits: c.bits ?? 8 })))
+				.values(
+					channels.map((c, i) => ({
+						modeId: mode.id,
+						position: i,
+						offset: c.offset,
+						parameter: c.parameter,
+						bits: c.bits ?? 8
+					}))
+				)
 				.run();
 		}
 	});
@@ -35,7 +47,12 @@ export function channels(n: number, bits: 8 | 16 = 8): ChannelSpec[] {
 	return Array.from({ length: n }, (_, i) => ({ offset: 1 + i * (bits / 8), parameter: `p${i + 1}`, bits }));
 }
 
-export function makeReceiver(db: Db, projectId: number, protocol: 'sbus' | 'crsf' | 'ppm' = 'sbus', name = 'Test receiver') {
+export function makeReceiver(
+	db: Db,
+	projectId: number,
+	protocol: 'sbus' | 'crsf' | 'ppm' = 'sbus',
+	name = 'Test receiver'
+) {
 	return db.insert(receivers).values({ projectId, name, protocol }).returning().get();
 }
 

@@ -17,7 +17,12 @@ export interface PdfPage {
 
 export async function pdfPages(data: Uint8Array): Promise<PdfPage[]> {
 	const pdfjs = await import('pdfjs-dist/legacy/build/pdf.mjs');
-	const doc = await pdfjs.getDocument({ data: new Uint8Array(data), disableFontFace: true, useSystemFonts: false, verbosity: 0 }).promise;
+	const doc = await pdfjs.getDocument({
+		data: new Uint8Array(data),
+		disableFontFace: true,
+		useSystemFonts: false,
+		verbosity: 0
+	}).promise;
 	const pages: PdfPage[] = [];
 	for (let i = 1; i <= doc.numPages; i++) {
 		const page = await doc.getPage(i);
@@ -51,7 +56,18 @@ export async function renderPage(data: Uint8Array, page: number, dpi: number): P
 	try {
 		const file = join(dir, 'in.pdf');
 		writeFileSync(file, data);
-		await promisify(execFile)('pdftoppm', ['-r', String(dpi), '-png', '-f', String(page), '-l', String(page), '-singlefile', file, join(dir, 'out')]);
+		await promisify(execFile)('pdftoppm', [
+			'-r',
+			String(dpi),
+			'-png',
+			'-f',
+			String(page),
+			'-l',
+			String(page),
+			'-singlefile',
+			file,
+			join(dir, 'out')
+		]);
 		return PNG.sync.read(readFileSync(join(dir, 'out.png')));
 	} finally {
 		rmSync(dir, { recursive: true, force: true });

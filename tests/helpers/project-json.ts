@@ -1,7 +1,14 @@
 // Compares project exports across servers: ids differ, what they point at must not.
 
 /** Replaces every id by what it points at, and drops the export time. */
-export function normaliseExport(doc: Record<string, unknown> & { universes: { id: number; number: number }[]; types: { id: number; modes: { id: number }[] }[]; receivers: { id: number }[]; fixtures: { id: number; number: number; typeId: number; modeId: number; control: Record<string, unknown> }[] }) {
+export function normaliseExport(
+	doc: Record<string, unknown> & {
+		universes: { id: number; number: number }[];
+		types: { id: number; modes: { id: number }[] }[];
+		receivers: { id: number }[];
+		fixtures: { id: number; number: number; typeId: number; modeId: number; control: Record<string, unknown> }[];
+	}
+) {
 	const u = new Map(doc.universes.map((x, i) => [x.id, i]));
 	const t = new Map(doc.types.map((x, i) => [x.id, i]));
 	const m = new Map(doc.types.flatMap((x, i) => x.modes.map((mm, j) => [mm.id, `${i}.${j}`] as const)));
@@ -23,4 +30,3 @@ export function normaliseExport(doc: Record<string, unknown> & { universes: { id
 		})
 	};
 }
-

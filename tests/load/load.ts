@@ -35,10 +35,19 @@ export async function runLoad({ seconds = 20, connections = 50 } = {}): Promise<
 		const client = await server.signIn('programmer@demo.test');
 		const projects = (await (await client.get('/api/projects')).json()).projects as { id: number }[];
 		const pid = projects[0].id;
-		const types = (await (await client.get(`/api/projects/${pid}/types`)).json()).types as { id: number; modes: { id: number }[] }[];
-		const spare = Array.from({ length: POOL }, (_, i) => ({ number: 9001 + i, label: `LOAD ${i + 1}`, typeId: types[0].id, modeId: types[0].modes[0].id }));
+		const types = (await (await client.get(`/api/projects/${pid}/types`)).json()).types as {
+			id: number;
+			modes: { id: number }[];
+		}[];
+		const spare = Array.from({ length: POOL }, (_, i) => ({
+			number: 9001 + i,
+			label: `LOAD ${i + 1}`,
+			typeId: types[0].id,
+			modeId: types[0].modes[0].id
+		}));
 		const created = await client.post(`/api/projects/${pid}/fixtures`, spare);
-		if (created.status !== 201) throw new Error(`could not create the spare fixtures: ${created.status} ${await created.text()}`);
+		if (created.status !== 201)
+			throw new Error(`could not create the spare fixtures: ${created.status} ${await created.text()}`);
 		const pool = ((await created.json()).fixtures as { id: number }[]).map((f) => f.id);
 		let next = 0;
 		let writesOk = 0;
@@ -109,5 +118,6 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
 	const [seconds, connections] = process.argv.slice(2).map(Number);
 	const result = await runLoad({ seconds: seconds || 20, connections: connections || 50 });
 	console.log(JSON.stringify(result, null, 2));
-	if (result.errors || result.timeouts || result.status5xx || result.status4xx !== result.conflicts409) process.exitCode = 1;
+	if (result.errors || result.timeouts || result.status5xx || result.status4xx !== result.conflicts409)
+		process.exitCode = 1;
 }

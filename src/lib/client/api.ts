@@ -28,7 +28,13 @@ export async function apiCall<T>(method: string, url: string, body?: unknown): P
 			body: body instanceof FormData ? body : body === undefined ? undefined : JSON.stringify(body)
 		});
 	} catch {
-		return { ok: false, status: 0, code: 'network', message: 'The server could not be reached. Nothing was saved.', issues: [] };
+		return {
+			ok: false,
+			status: 0,
+			code: 'network',
+			message: 'The server could not be reached. Nothing was saved.',
+			issues: []
+		};
 	}
 	const text = await res.text();
 	let parsed: unknown;
@@ -38,7 +44,8 @@ export async function apiCall<T>(method: string, url: string, body?: unknown): P
 		parsed = null;
 	}
 	if (res.ok) return { ok: true, status: res.status, data: parsed as T };
-	const err = (parsed as { error?: { code?: string; message?: string; issues?: ApiIssue[] }; current?: unknown } | null) ?? {};
+	const err =
+		(parsed as { error?: { code?: string; message?: string; issues?: ApiIssue[] }; current?: unknown } | null) ?? {};
 	return {
 		ok: false,
 		status: res.status,

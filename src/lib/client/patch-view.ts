@@ -93,4 +93,3 @@ export function conflictsByFixture(conflicts: Conflict[]): Map<number, Conflict[
 	for (const c of conflicts) for (const id of c.fixtureIds) map.set(id, [...(map.get(id) ?? []), c]);
 	return map;
 }
-

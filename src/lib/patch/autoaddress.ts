@@ -44,8 +44,10 @@ function checkOptions(o: AutoAddressOptions): Required<AutoAddressOptions> {
 	const start = o.start ?? 1;
 	const align = o.align ?? 1;
 	const gap = o.gap ?? 0;
-	if (!Number.isInteger(start) || start < 1 || start > UNIVERSE_SLOTS) throw new RangeError(`start ${start} is outside 1–512`);
-	if (!Number.isInteger(align) || align < 1 || align > UNIVERSE_SLOTS) throw new RangeError(`align ${align} is not 1–512`);
+	if (!Number.isInteger(start) || start < 1 || start > UNIVERSE_SLOTS)
+		throw new RangeError(`start ${start} is outside 1–512`);
+	if (!Number.isInteger(align) || align < 1 || align > UNIVERSE_SLOTS)
+		throw new RangeError(`align ${align} is not 1–512`);
 	if (!Number.isInteger(gap) || gap < 0) throw new RangeError(`gap ${gap} is not a slot count`);
 	return { start, align, gap };
 }
@@ -202,7 +204,9 @@ export function autoAddressAcross(input: AutoAddressAcrossInput): AutoAddressAcr
 				: input.universes.length === 1
 					? (input.universes[0].label ?? 'the universe')
 					: `any of the ${targets.length} universes`;
-		const reason = bad ?? `${needs(f.slots)}; no free run of ${f.slots}${align > 1 ? ` on an address ≡ 1 (mod ${align})` : ''} in ${where}`;
+		const reason =
+			bad ??
+			`${needs(f.slots)}; no free run of ${f.slots}${align > 1 ? ` on an address ≡ 1 (mod ${align})` : ''} in ${where}`;
 		result.unplaced.push({ fixtureId: f.id, reason });
 	}
 	return result;

@@ -99,13 +99,29 @@ export function hsiToSrgb(hueDegrees: number, saturationPercent: number, intensi
 	const m = v - c;
 	const sector = Math.floor(h);
 	const [r, g, b]: Rgb =
-		sector === 0 ? [c, x, 0] : sector === 1 ? [x, c, 0] : sector === 2 ? [0, c, x] : sector === 3 ? [0, x, c] : sector === 4 ? [x, 0, c] : [c, 0, x];
+		sector === 0
+			? [c, x, 0]
+			: sector === 1
+				? [x, c, 0]
+				: sector === 2
+					? [0, c, x]
+					: sector === 3
+						? [0, x, c]
+						: sector === 4
+							? [x, 0, c]
+							: [c, 0, x];
 	return [r + m, g + m, b + m];
 }
 
 /** Encoded sRGB 0–1 → "#rrggbb" (clamped, round half up). */
 export function rgbToHex(rgb: Rgb): string {
-	return `#${rgb.map((c) => Math.floor(clamp01(c) * 255 + 0.5).toString(16).padStart(2, '0')).join('')}`;
+	return `#${rgb
+		.map((c) =>
+			Math.floor(clamp01(c) * 255 + 0.5)
+				.toString(16)
+				.padStart(2, '0')
+		)
+		.join('')}`;
 }
 
 export function cctSwatch(kelvin: number, intensityPercent = 100): string {

@@ -79,7 +79,8 @@ function receiverName(r: Receiver): string {
 
 function sortedByNumber(fixtures: readonly PatchFixture[]): readonly PatchFixture[] {
 	// Databases usually answer in number order already; check before paying for a sort.
-	for (let i = 1; i < fixtures.length; i++) if (byNumber(fixtures[i - 1], fixtures[i]) > 0) return [...fixtures].sort(byNumber);
+	for (let i = 1; i < fixtures.length; i++)
+		if (byNumber(fixtures[i - 1], fixtures[i]) > 0) return [...fixtures].sort(byNumber);
 	return fixtures;
 }
 
@@ -87,7 +88,10 @@ function sortedByNumber(fixtures: readonly PatchFixture[]): readonly PatchFixtur
  * Footprints, slot claims and every conflict of a patch, computed in one pass. `footprints: false`
  * skips the per-fixture list when only conflicts are wanted (it is most of the allocation).
  */
-export function analysePatch(input: PatchInput, { footprints: wantFootprints = true }: { footprints?: boolean } = {}): PatchAnalysis {
+export function analysePatch(
+	input: PatchInput,
+	{ footprints: wantFootprints = true }: { footprints?: boolean } = {}
+): PatchAnalysis {
 	const modes = isModeMap(input.modes) ? input.modes : new Map(input.modes.map((m) => [m.id, m]));
 	const compiled = new Map<number, CompiledMode>();
 	for (const [id, m] of modes) compiled.set(id, compileMode(m));
@@ -99,7 +103,12 @@ export function analysePatch(input: PatchInput, { footprints: wantFootprints = t
 	const conflicts: Conflict[] = [];
 	// Numbers of the fixtures named in conflicts, for ordering them without indexing every fixture.
 	const numbers = new Map<number, number>();
-	const add = (kind: ConflictKind, on: readonly PatchFixture[], message: string, extra: Partial<Conflict> = {}): void => {
+	const add = (
+		kind: ConflictKind,
+		on: readonly PatchFixture[],
+		message: string,
+		extra: Partial<Conflict> = {}
+	): void => {
 		for (const f of on) numbers.set(f.id, f.number);
 		conflicts.push({ kind, severity: SEVERITY[kind], ...extra, fixtureIds: on.map((f) => f.id), message });
 	};
@@ -114,7 +123,12 @@ export function analysePatch(input: PatchInput, { footprints: wantFootprints = t
 		const c = f.control;
 		const mode = compiled.get(f.modeId);
 		const entry: FixtureFootprint | undefined = wantFootprints
-			? { fixtureId: f.id, footprint: mode === undefined ? null : mode.slotCount, universeId: c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null, ranges: [] }
+			? {
+					fixtureId: f.id,
+					footprint: mode === undefined ? null : mode.slotCount,
+					universeId: c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null,
+					ranges: []
+				}
 			: undefined;
 		if (entry !== undefined) footprints.push(entry);
 		if (c.kind !== 'dmx' && c.kind !== 'dmx-map') {
@@ -162,7 +176,12 @@ export function analysePatch(input: PatchInput, { footprints: wantFootprints = t
 	const swept = sweep(claims, sameLayout);
 	for (const { a, b, slots } of swept.overlaps) {
 		const u = universes[claims[a].universe];
-		add('overlap', [claimFixture[a], claimFixture[b]], `Fixtures ${claimFixture[a].number} and ${claimFixture[b].number} both claim ${slots.length === 1 ? 'slot' : 'slots'} ${formatSlots(slots)} of universe ${u.number} — move one.`, { universeId: u.id, slots });
+		add(
+			'overlap',
+			[claimFixture[a], claimFixture[b]],
+			`Fixtures ${claimFixture[a].number} and ${claimFixture[b].number} both claim ${slots.length === 1 ? 'slot' : 'slots'} ${formatSlots(slots)} of universe ${u.number} — move one.`,
+			{ universeId: u.id, slots }
+		);
 	}
 	for (const stack of swept.stacks) {
 		const on = stack.map((ci) => claimFixture[ci]);
@@ -171,9 +190,17 @@ export function analysePatch(input: PatchInput, { footprints: wantFootprints = t
 		const group = on[0].linkGroup;
 		const where = `universe ${u.number} address ${start}`;
 		if (group !== null && on.every((f) => f.linkGroup === group)) {
-			add('linked', on, `Fixtures ${listNumbers(on)} are linked (group "${group}") on ${where}.`, { universeId: u.id, slots: [start] });
+			add('linked', on, `Fixtures ${listNumbers(on)} are linked (group "${group}") on ${where}.`, {
+				universeId: u.id,
+				slots: [start]
+			});
 		} else {
-			add('shared', on, `Fixtures ${listNumbers(on)} share ${where} in the same mode but are not in one link group — declare a link group if they should move together, or move one.`, { universeId: u.id, slots: [start] });
+			add(
+				'shared',
+				on,
+				`Fixtures ${listNumbers(on)} share ${where} in the same mode but are not in one link group — declare a link group if they should move together, or move one.`,
+				{ universeId: u.id, slots: [start] }
+			);
 		}
 	}
 
@@ -198,24 +225,58 @@ type Add = (kind: ConflictKind, on: readonly PatchFixture[], message: string, ex
 function reportFootprint(add: Add, f: PatchFixture, u: Universe, footprint: number, p: FootprintProblem): void {
 	const at = `universe ${u.number}`;
 	if (p.kind === 'self-overlap') {
-		add('overlap', [f], `Fixture ${f.number} maps ${p.parameters.join(' and ')} onto ${p.slots.length === 1 ? 'slot' : 'slots'} ${formatSlots(p.slots)} of ${at} — give each parameter its own address.`, { universeId: u.id, slots: p.slots });
+		add(
+			'overlap',
+			[f],
+			`Fixture ${f.number} maps ${p.parameters.join(' and ')} onto ${p.slots.length === 1 ? 'slot' : 'slots'} ${formatSlots(p.slots)} of ${at} — give each parameter its own address.`,
+			{ universeId: u.id, slots: p.slots }
+		);
 	} else if (p.kind === 'overflow') {
-		const fix = p.needs > UNIVERSE_SLOTS ? 'it needs more slots than a universe holds — choose a smaller mode' : `start it at ${UNIVERSE_SLOTS + 1 - p.needs} or lower`;
-		const what = p.parameter === undefined ? `needs ${p.needs} slots from address ${p.address}` : `puts ${p.parameter} (${p.needs} slots) at ${p.address}`;
+		const fix =
+			p.needs > UNIVERSE_SLOTS
+				? 'it needs more slots than a universe holds — choose a smaller mode'
+				: `start it at ${UNIVERSE_SLOTS + 1 - p.needs} or lower`;
+		const what =
+			p.parameter === undefined
+				? `needs ${p.needs} slots from address ${p.address}`
+				: `puts ${p.parameter} (${p.needs} slots) at ${p.address}`;
 		const slots: number[] = [];
 		for (let s = p.address; s <= UNIVERSE_SLOTS; s++) slots.push(s);
-		add('overflow', [f], `Fixture ${f.number} ${what} of ${at}, running to slot ${p.lastSlot} past 512 — ${fix}.`, { universeId: u.id, slots });
+		add('overflow', [f], `Fixture ${f.number} ${what} of ${at}, running to slot ${p.lastSlot} past 512 — ${fix}.`, {
+			universeId: u.id,
+			slots
+		});
 	} else if (p.parameter === undefined) {
 		const last = footprint > 0 && footprint <= UNIVERSE_SLOTS ? UNIVERSE_SLOTS + 1 - footprint : UNIVERSE_SLOTS;
-		add('out-of-range', [f], `Fixture ${f.number} has address ${p.address ?? 'none'} in ${at}, outside 1–512 — pick 1–${last}.`, { universeId: u.id });
+		add(
+			'out-of-range',
+			[f],
+			`Fixture ${f.number} has address ${p.address ?? 'none'} in ${at}, outside 1–512 — pick 1–${last}.`,
+			{ universeId: u.id }
+		);
 	} else if (p.address === null) {
-		add('out-of-range', [f], `Fixture ${f.number} has no address for ${p.parameter} in ${at} — give it one from 1 to 512.`, { universeId: u.id });
+		add(
+			'out-of-range',
+			[f],
+			`Fixture ${f.number} has no address for ${p.parameter} in ${at} — give it one from 1 to 512.`,
+			{ universeId: u.id }
+		);
 	} else {
-		add('out-of-range', [f], `Fixture ${f.number} puts ${p.parameter} at ${p.address} in ${at}, outside 1–512 — pick 1–512.`, { universeId: u.id });
+		add(
+			'out-of-range',
+			[f],
+			`Fixture ${f.number} puts ${p.parameter} at ${p.address} in ${at}, outside 1–512 — pick 1–512.`,
+			{ universeId: u.id }
+		);
 	}
 }
 
-function checkRc(fixtures: readonly PatchFixture[], modes: ReadonlyMap<number, Mode>, receiverList: readonly Receiver[], add: Add): void {
+function checkRc(
+	fixtures: readonly PatchFixture[],
+	modes: ReadonlyMap<number, Mode>,
+	receiverList: readonly Receiver[],
+	add: Add
+): void {
 	const receivers = new Map(receiverList.map((r) => [r.id, r]));
 	// receiverId → channel → who drives it; a link group drives as one.
 	const drivers = new Map<number, Map<number, { driver: string; parameter: string; fixture: PatchFixture }[]>>();
@@ -224,7 +285,13 @@ function checkRc(fixtures: readonly PatchFixture[], modes: ReadonlyMap<number, M
 		if (c.kind !== 'rc') continue;
 		const r = c.receiverId === null ? undefined : receivers.get(c.receiverId);
 		if (r === undefined) {
-			add('rc-unassigned', [f], c.receiverId === null ? `Fixture ${f.number} is on RC but has no receiver — choose one.` : `Fixture ${f.number} points at receiver id ${c.receiverId}, which is not in this project — choose another.`);
+			add(
+				'rc-unassigned',
+				[f],
+				c.receiverId === null
+					? `Fixture ${f.number} is on RC but has no receiver — choose one.`
+					: `Fixture ${f.number} points at receiver id ${c.receiverId}, which is not in this project — choose another.`
+			);
 			continue;
 		}
 		const mode = modes.get(f.modeId);
@@ -240,15 +307,29 @@ function checkRc(fixtures: readonly PatchFixture[], modes: ReadonlyMap<number, M
 				if (byChannel === undefined) drivers.set(r.id, (byChannel = new Map()));
 				const list = byChannel.get(ch) ?? [];
 				byChannel.set(ch, list);
-				list.push({ driver: `${f.linkGroup === null ? `#${f.id}` : `group:${f.linkGroup}`}|${p}`, parameter: p, fixture: f });
+				list.push({
+					driver: `${f.linkGroup === null ? `#${f.id}` : `group:${f.linkGroup}`}|${p}`,
+					parameter: p,
+					fixture: f
+				});
 			}
 		}
 		if (missing.length > 0) {
-			add('rc-unassigned', [f], `Fixture ${f.number} has no channel on ${receiverName(r)} for ${missing.join(', ')} — assign one.`, { receiverId: r.id });
+			add(
+				'rc-unassigned',
+				[f],
+				`Fixture ${f.number} has no channel on ${receiverName(r)} for ${missing.join(', ')} — assign one.`,
+				{ receiverId: r.id }
+			);
 		}
 		if (beyond.length > 0) {
 			const what = beyond.map((b) => `${b.parameter} on ${b.channel}`).join(', ');
-			add('rc-unassigned', [f], `Fixture ${f.number} has ${what}, but ${receiverName(r)} has channels 1–${r.channelCount} — pick one in range.`, { receiverId: r.id, channels: beyond.map((b) => b.channel) });
+			add(
+				'rc-unassigned',
+				[f],
+				`Fixture ${f.number} has ${what}, but ${receiverName(r)} has channels 1–${r.channelCount} — pick one in range.`,
+				{ receiverId: r.id, channels: beyond.map((b) => b.channel) }
+			);
 		}
 	}
 	for (const [rid, byChannel] of drivers) {
@@ -258,7 +339,12 @@ function checkRc(fixtures: readonly PatchFixture[], modes: ReadonlyMap<number, M
 			if (new Set(list.map((d) => d.driver)).size < 2) continue;
 			const on = [...new Set(list.map((d) => d.fixture))];
 			const what = list.map((d) => `${d.parameter} of fixture ${d.fixture.number}`).join(', ');
-			add('rc-collision', on, `Channel ${ch} of ${receiverName(r)} drives ${what} — give each parameter its own channel, or link the fixtures.`, { receiverId: r.id, channels: [ch] });
+			add(
+				'rc-collision',
+				on,
+				`Channel ${ch} of ${receiverName(r)} drives ${what} — give each parameter its own channel, or link the fixtures.`,
+				{ receiverId: r.id, channels: [ch] }
+			);
 		}
 	}
 }
@@ -273,7 +359,9 @@ function checkLines(
 ): void {
 	const lineOf = (f: PatchFixture): number | undefined => {
 		const c = f.control;
-		return (c.kind === 'dmx' || c.kind === 'dmx-map') && c.universeId !== null ? universeIndex.get(c.universeId) : undefined;
+		return (c.kind === 'dmx' || c.kind === 'dmx-map') && c.universeId !== null
+			? universeIndex.get(c.universeId)
+			: undefined;
 	};
 	// A follower is daisy-chained from its leader, so it is a unit load on the leader's line.
 	const byId = new Map<number, PatchFixture>();
@@ -301,15 +389,26 @@ function checkLines(
 	for (const f of fixtures) overloaded.get(lineOf(f) ?? followerLine.get(f) ?? -1)?.push(f);
 	for (const [i, on] of overloaded) {
 		const u = universes[i];
-		add('line-overload', on, `Universe ${u.number} (wired DMX) carries ${on.length} units on one line; EIA-485 allows ${UNITS_PER_LINE} unit loads per segment — add a splitter or move fixtures.`, { universeId: u.id });
+		add(
+			'line-overload',
+			on,
+			`Universe ${u.number} (wired DMX) carries ${on.length} units on one line; EIA-485 allows ${UNITS_PER_LINE} unit loads per segment — add a splitter or move fixtures.`,
+			{ universeId: u.id }
+		);
 	}
 }
 
-function compareConflicts(x: Conflict, y: Conflict, universeRank: ReadonlyMap<number, number>, numberOf: (id: number) => number): number {
+function compareConflicts(
+	x: Conflict,
+	y: Conflict,
+	universeRank: ReadonlyMap<number, number>,
+	numberOf: (id: number) => number
+): number {
 	const d =
 		SEVERITY_RANK[x.severity] - SEVERITY_RANK[y.severity] ||
 		KIND_RANK[x.kind] - KIND_RANK[y.kind] ||
-		(x.universeId === undefined ? -1 : (universeRank.get(x.universeId) ?? -1)) - (y.universeId === undefined ? -1 : (universeRank.get(y.universeId) ?? -1)) ||
+		(x.universeId === undefined ? -1 : (universeRank.get(x.universeId) ?? -1)) -
+			(y.universeId === undefined ? -1 : (universeRank.get(y.universeId) ?? -1)) ||
 		(x.receiverId ?? -1) - (y.receiverId ?? -1) ||
 		(x.slots?.[0] ?? x.channels?.[0] ?? 0) - (y.slots?.[0] ?? y.channels?.[0] ?? 0);
 	if (d !== 0) return d;

@@ -80,7 +80,9 @@ function flatten(v: unknown, path: string, out: Map<string, JsonValue>): void {
 }
 
 function sameLeaf(a: JsonValue, b: JsonValue): boolean {
-	return typeof a === 'object' && a !== null && typeof b === 'object' && b !== null ? JSON.stringify(a) === JSON.stringify(b) : a === b;
+	return typeof a === 'object' && a !== null && typeof b === 'object' && b !== null
+		? JSON.stringify(a) === JSON.stringify(b)
+		: a === b;
 }
 
 /** Leaf-level differences, nested objects and arrays flattened into dotted paths; absent reads as null. */
@@ -98,7 +100,10 @@ export function diffFields(before: object, after: object): FieldChange[] {
 	return out;
 }
 
-function matchById<T extends { id: number; number?: number }>(before: readonly T[], after: readonly T[]): { pairs: [T, T][]; added: T[]; removed: T[] } {
+function matchById<T extends { id: number; number?: number }>(
+	before: readonly T[],
+	after: readonly T[]
+): { pairs: [T, T][]; added: T[]; removed: T[] } {
 	const afterById = new Map(after.map((a) => [a.id, a]));
 	const taken = new Set<T>();
 	const pairs: [T, T][] = [];
@@ -112,7 +117,8 @@ function matchById<T extends { id: number; number?: number }>(before: readonly T
 	}
 	// A fixture re-created (new id, same number) is the same unit to the crew.
 	const freeByNumber = new Map<number, T>();
-	for (const a of after) if (!taken.has(a) && a.number !== undefined && !freeByNumber.has(a.number)) freeByNumber.set(a.number, a);
+	for (const a of after)
+		if (!taken.has(a) && a.number !== undefined && !freeByNumber.has(a.number)) freeByNumber.set(a.number, a);
 	const removed: T[] = [];
 	for (const b of unmatched) {
 		const a = b.number === undefined ? undefined : freeByNumber.get(b.number);
@@ -125,10 +131,17 @@ function matchById<T extends { id: number; number?: number }>(before: readonly T
 		taken.add(a);
 	}
 	const order = (x: T, y: T): number => (x.number ?? 0) - (y.number ?? 0) || x.id - y.id;
-	return { pairs: pairs.sort((x, y) => order(x[1], y[1])), added: after.filter((a) => !taken.has(a)).sort(order), removed: removed.sort(order) };
+	return {
+		pairs: pairs.sort((x, y) => order(x[1], y[1])),
+		added: after.filter((a) => !taken.has(a)).sort(order),
+		removed: removed.sort(order)
+	};
 }
 
-function diffCollection(before: readonly SnapshotRecord[] = [], after: readonly SnapshotRecord[] = []): CollectionDiff<SnapshotRecord> {
+function diffCollection(
+	before: readonly SnapshotRecord[] = [],
+	after: readonly SnapshotRecord[] = []
+): CollectionDiff<SnapshotRecord> {
 	const m = matchById(before, after);
 	const changed: RecordChange[] = [];
 	for (const [b, a] of m.pairs) {

@@ -101,7 +101,10 @@ export function compileMode(mode: Mode): CompiledMode {
 }
 
 /** Union of each parameter's slots; a 16-bit parameter at a takes a and a + 1. */
-export function resolveDmxMap(addresses: Readonly<Record<string, number>>, mode: Mode | CompiledMode): ResolvedFootprint {
+export function resolveDmxMap(
+	addresses: Readonly<Record<string, number>>,
+	mode: Mode | CompiledMode
+): ResolvedFootprint {
 	const compiled = 'mapped' in mode ? mode : compileMode(mode);
 	let problems: FootprintProblem[] = NO_PROBLEMS;
 	const slots: number[] = [];

@@ -69,7 +69,10 @@ export function artnetToPaper(portAddress: number, offset: ArtnetOffset): number
 }
 
 /** Both numbers a crew needs for a paper universe: the port-address and its net / sub-net / universe. */
-export function artnetForUniverse(paperUniverse: number, offset: ArtnetOffset): ArtnetAddress & { portAddress: number } {
+export function artnetForUniverse(
+	paperUniverse: number,
+	offset: ArtnetOffset
+): ArtnetAddress & { portAddress: number } {
 	const portAddress = paperToArtnet(paperUniverse, offset);
 	return { ...splitArtnetPortAddress(portAddress), portAddress };
 }

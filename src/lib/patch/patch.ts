@@ -1,5 +1,11 @@
 import { analysePatch, type FixtureFootprint, type PatchInput } from './conflicts';
-import { artnetForUniverse, isSacnUniverse, sacnMulticastGroup, type ArtnetAddress, type ArtnetOffset } from './numbering';
+import {
+	artnetForUniverse,
+	isSacnUniverse,
+	sacnMulticastGroup,
+	type ArtnetAddress,
+	type ArtnetOffset
+} from './numbering';
 import { dmxFrameTiming } from './refresh';
 import type { Conflict, Transport } from './types';
 
@@ -49,7 +55,10 @@ export function computePatch(input: ComputePatchInput): PatchResult {
 				frameUs: timing.frameUs,
 				refreshHz: timing.rateHz,
 				sacn: isSacnUniverse(u.number) ? { universe: u.number, group: sacnMulticastGroup(u.number) } : null,
-				artnet: Number.isInteger(portAddress) && portAddress >= 0 && portAddress <= 32767 ? artnetForUniverse(u.number, offset) : null
+				artnet:
+					Number.isInteger(portAddress) && portAddress >= 0 && portAddress <= 32767
+						? artnetForUniverse(u.number, offset)
+						: null
 			};
 		});
 	return { fixtures: footprints, universes, conflicts };

@@ -111,10 +111,12 @@ export function assignRc(input: AssignRcInput): AssignRcResult {
 	const count = receiver.channelCount ?? defaultChannelCount(receiver.protocol);
 	const lastProportional = Math.min(pool.proportional, count);
 	const digitalChannels: number[] = [];
-	for (let ch = pool.proportional + 1; ch <= Math.min(pool.proportional + pool.digital, count); ch++) digitalChannels.push(ch);
+	for (let ch = pool.proportional + 1; ch <= Math.min(pool.proportional + pool.digital, count); ch++)
+		digitalChannels.push(ch);
 	const used = new Uint8Array(Math.max(count, 0) + 1);
 	const units = unitsOf(input.fixtures);
-	const name = receiver.name !== undefined && receiver.name !== '' ? `receiver "${receiver.name}"` : `receiver ${receiver.id}`;
+	const name =
+		receiver.name !== undefined && receiver.name !== '' ? `receiver "${receiver.name}"` : `receiver ${receiver.id}`;
 
 	// Existing channels are claimed before anything new, so a later unit keeps its channel.
 	if (input.keepExisting === true) {
@@ -178,7 +180,8 @@ export function assignRc(input: AssignRcInput): AssignRcResult {
 			for (const p of new Set(m.parameters)) {
 				const ch = unit.channel.get(p);
 				if (ch !== undefined) result.assigned.push({ fixtureId: m.id, parameter: p, channel: ch });
-				else result.unassigned.push({ fixtureId: m.id, parameter: p, reason: failed.get(unit) ?? `no channel for ${p}` });
+				else
+					result.unassigned.push({ fixtureId: m.id, parameter: p, reason: failed.get(unit) ?? `no channel for ${p}` });
 			}
 		}
 	}

@@ -25,7 +25,8 @@ export interface FrameOptions {
 
 /** Frame time for a universe whose highest used slot is `slots` (the start code counts as one more slot). */
 export function dmxFrameTiming(slots: number, options: FrameOptions = {}): FrameTiming {
-	if (!Number.isInteger(slots) || slots < 0 || slots > 512) throw new RangeError(`slot count ${slots} is outside 0–512`);
+	if (!Number.isInteger(slots) || slots < 0 || slots > 512)
+		throw new RangeError(`slot count ${slots} is outside 0–512`);
 	const breakUs = Math.max(options.breakUs ?? MIN_BREAK_US, MIN_BREAK_US);
 	const mabUs = Math.max(options.mabUs ?? MIN_MAB_US, MIN_MAB_US);
 	const frameUs = Math.max(breakUs + mabUs + (slots + 1) * SLOT_US, MIN_BREAK_TO_BREAK_US);

@@ -86,14 +86,7 @@ export interface SlotRange {
 }
 
 export type ConflictKind =
-	| 'overlap'
-	| 'shared'
-	| 'linked'
-	| 'overflow'
-	| 'out-of-range'
-	| 'rc-collision'
-	| 'rc-unassigned'
-	| 'line-overload';
+	'overlap' | 'shared' | 'linked' | 'overflow' | 'out-of-range' | 'rc-collision' | 'rc-unassigned' | 'line-overload';
 
 export type Severity = 'error' | 'warning' | 'info';
 

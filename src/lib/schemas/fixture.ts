@@ -91,7 +91,8 @@ export const fixtureBulkPatch = z.strictObject({
 		.superRefine((list, ctx) => {
 			const seen = new Set<number>();
 			list.forEach((f, i) => {
-				if (seen.has(f.id)) ctx.addIssue({ code: 'custom', path: [i, 'id'], message: `Fixture id ${f.id} is listed twice.` });
+				if (seen.has(f.id))
+					ctx.addIssue({ code: 'custom', path: [i, 'id'], message: `Fixture id ${f.id} is listed twice.` });
 				seen.add(f.id);
 			});
 		})

@@ -33,11 +33,19 @@ export const modeInput = z
 		const names = new Set<string>();
 		mode.channels.forEach((ch, i) => {
 			if (names.has(ch.parameter)) {
-				ctx.addIssue({ code: 'custom', path: ['channels', i, 'parameter'], message: `"${ch.parameter}" appears twice in this mode.` });
+				ctx.addIssue({
+					code: 'custom',
+					path: ['channels', i, 'parameter'],
+					message: `"${ch.parameter}" appears twice in this mode.`
+				});
 			}
 			names.add(ch.parameter);
 			if (ch.default > 2 ** ch.bits - 1) {
-				ctx.addIssue({ code: 'custom', path: ['channels', i, 'default'], message: `A ${ch.bits}-bit default is 0–${2 ** ch.bits - 1}.` });
+				ctx.addIssue({
+					code: 'custom',
+					path: ['channels', i, 'default'],
+					message: `A ${ch.bits}-bit default is 0–${2 ** ch.bits - 1}.`
+				});
 			}
 			if (ch.min !== undefined && ch.max !== undefined && ch.min > ch.max) {
 				ctx.addIssue({ code: 'custom', path: ['channels', i, 'min'], message: 'min is above max.' });
@@ -45,12 +53,20 @@ export const modeInput = z
 			if (ch.offset === null) return;
 			for (const s of slotsOf(ch.offset, ch.bits)) {
 				if (s > SLOTS_PER_UNIVERSE) {
-					ctx.addIssue({ code: 'custom', path: ['channels', i, 'offset'], message: `${ch.parameter} would end on slot ${s}; a mode fits in 512 slots.` });
+					ctx.addIssue({
+						code: 'custom',
+						path: ['channels', i, 'offset'],
+						message: `${ch.parameter} would end on slot ${s}; a mode fits in 512 slots.`
+					});
 					return;
 				}
 				const other = owner.get(s);
 				if (other !== undefined) {
-					ctx.addIssue({ code: 'custom', path: ['channels', i, 'offset'], message: `${ch.parameter} and ${other} both claim slot ${s}.` });
+					ctx.addIssue({
+						code: 'custom',
+						path: ['channels', i, 'offset'],
+						message: `${ch.parameter} and ${other} both claim slot ${s}.`
+					});
 					return;
 				}
 				owner.set(s, ch.parameter);

@@ -1,7 +1,7 @@
 import { isHttpError, isRedirect, json, type RequestEvent } from '@sveltejs/kit';
 import { z, ZodError } from 'zod';
 import { readCapped } from './body';
-import { InUseError, StaleVersionError } from './db/errors';
+import { DomainError } from './errors';
 
 // The JSON API's edges: one error shape, one body reader with a size limit,
 // one wrapper that turns thrown errors into that shape (DESIGN.md "JSON API").
@@ -97,11 +97,9 @@ export function api<E extends RequestEvent>(
 			if (isHttpError(err)) {
 				return apiError(err.status, err.body.message, err.body.code ? { code: err.body.code } : {});
 			}
-			if (err instanceof StaleVersionError) {
-				return apiError(409, err.message, { code: 'stale', current: err.current });
-			}
-			if (err instanceof InUseError) {
-				return apiError(409, err.message, { code: 'in-use', usedBy: err.usedBy });
+			if (err instanceof DomainError) {
+				const issues = err.issues();
+				return apiError(err.status, err.message, { code: err.code, ...(issues ? { issues } : {}), ...err.extra() });
 			}
 			if (err instanceof ZodError) {
 				return apiError(400, 'The request is not valid.', { issues: zodIssues(err) });

@@ -67,17 +67,24 @@ export interface UploadLimits {
 /** The multipart field `file` and the other text fields; the body is counted while read and refused (413) past the cap. */
 export async function readUpload(event: Pick<RequestEvent, 'request'>, limits: UploadLimits): Promise<Upload> {
 	const type = event.request.headers.get('content-type') ?? '';
-	if (!type.startsWith('multipart/form-data')) throw new ApiError(415, 'Send the file as multipart/form-data with a field named file.');
+	if (!type.startsWith('multipart/form-data'))
+		throw new ApiError(415, 'Send the file as multipart/form-data with a field named file.');
 	const body = await readCapped(event.request, limits.maxBodyBytes);
 	let form: FormData;
 	try {
-		form = await new Request('http://upload.invalid/', { method: 'POST', headers: { 'content-type': type }, body: new Uint8Array(body) }).formData();
+		form = await new Request('http://upload.invalid/', {
+			method: 'POST',
+			headers: { 'content-type': type },
+			body: new Uint8Array(body)
+		}).formData();
 	} catch {
 		throw new ApiError(400, 'The multipart body could not be read.');
 	}
 	const file = form.get('file');
-	if (!(file instanceof File)) throw new ApiError(400, 'Attach the file in a field named file.', { issues: [limits.missingIssue] });
-	if (file.size > limits.maxFileBytes) throw new ApiError(413, `The file is over ${sizeText(limits.maxFileBytes)}.`, { code: 'too-large' });
+	if (!(file instanceof File))
+		throw new ApiError(400, 'Attach the file in a field named file.', { issues: [limits.missingIssue] });
+	if (file.size > limits.maxFileBytes)
+		throw new ApiError(413, `The file is over ${sizeText(limits.maxFileBytes)}.`, { code: 'too-large' });
 	const fields = new Map<string, string>();
 	for (const [k, v] of form) if (typeof v === 'string') fields.set(k, v);
 	return { name: file.name, bytes: new Uint8Array(await file.arrayBuffer()), fields };

@@ -165,11 +165,7 @@ export async function ensureDemoUsers(database: Db): Promise<Map<string, string>
 			continue;
 		}
 		hash ??= await hashPassword(DEMO_PASSWORD);
-		const row = database
-			.insert(users)
-			.values({ email: u.email, name: u.name, passwordHash: hash })
-			.returning()
-			.get();
+		const row = database.insert(users).values({ email: u.email, name: u.name, passwordHash: hash }).returning().get();
 		ids.set(u.email, row.id);
 	}
 	return ids;
@@ -209,7 +205,9 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 			.returning()
 			.get();
 		for (const u of DEMO_USERS) {
-			tx.insert(memberships).values({ projectId: project.id, userId: ids.get(u.email)!, role: u.role }).run();
+			tx.insert(memberships)
+				.values({ projectId: project.id, userId: ids.get(u.email)!, role: u.role })
+				.run();
 		}
 
 		const modeIds = new Map<string, { typeId: number; modeId: number }>();
@@ -244,7 +242,12 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 			tx.insert(universes).values({ projectId: project.id, number, name, transport, notes }).returning().get().id;
 		const u1 = uni(1, 'Wheelhouse, wired', 'dmx-wired', 'Desk output A, 5-pin run along the rail');
 		const u2 = uni(2, 'Main deck', 'sacn', 'Node on the mast, port 1');
-		const u3 = uni(3, 'Stern & river bank', 'dmx-wireless', 'Wireless transmitter on the roof, receivers on each bank stand');
+		const u3 = uni(
+			3,
+			'Stern & river bank',
+			'dmx-wireless',
+			'Wireless transmitter on the roof, receivers on each bank stand'
+		);
 		const u4 = uni(4, 'Quay', 'artnet', 'Node in the quay distro box');
 
 		const rx = tx
@@ -268,7 +271,8 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 			[8, 'slider RS'],
 			[17, 'switch SA (on/off)']
 		];
-		for (const [channel, label] of labels) tx.insert(receiverLabels).values({ receiverId: rx.id, channel, label }).run();
+		for (const [channel, label] of labels)
+			tx.insert(receiverLabels).values({ receiverId: rx.id, channel, label }).run();
 
 		let number = 100;
 		const add = (
@@ -302,10 +306,27 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 			});
 			if (i === 0) leader = id;
 		}
-		add('Lantern Ball 40/Dimmer 16-bit', 'WHEEL BALL A', dmx(u1, 97), { position: 'Over chart table', groupName: 'Wheelhouse', watts: 60, lookCct: 3200, lookIntensity: 40 });
-		add('Lantern Ball 40/Dimmer 16-bit', 'WHEEL BALL B', dmx(u1, 99), { position: 'Over helm', groupName: 'Wheelhouse', watts: 60, lookCct: 3200, lookIntensity: 40 });
+		add('Lantern Ball 40/Dimmer 16-bit', 'WHEEL BALL A', dmx(u1, 97), {
+			position: 'Over chart table',
+			groupName: 'Wheelhouse',
+			watts: 60,
+			lookCct: 3200,
+			lookIntensity: 40
+		});
+		add('Lantern Ball 40/Dimmer 16-bit', 'WHEEL BALL B', dmx(u1, 99), {
+			position: 'Over helm',
+			groupName: 'Wheelhouse',
+			watts: 60,
+			lookCct: 3200,
+			lookIntensity: 40
+		});
 		// a second panel slaved to WHEEL 1 over its own link cable
-		add('Skiff Panel 60/HSIC 16-bit', 'WHEEL 1 FOLLOW', { controlKind: 'follow', leaderId: leader }, { position: 'Wheelhouse ceiling, port', groupName: 'Wheelhouse', watts: 90 });
+		add(
+			'Skiff Panel 60/HSIC 16-bit',
+			'WHEEL 1 FOLLOW',
+			{ controlKind: 'follow', leaderId: leader },
+			{ position: 'Wheelhouse ceiling, port', groupName: 'Wheelhouse', watts: 90 }
+		);
 
 		// Universe 2: ten tubes in the 11-slot mode, on round-ish addresses
 		for (let i = 0; i < 10; i++) {
@@ -319,11 +340,22 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 				lookIntensity: 35
 			});
 		}
-		add('Deck Dimmer 4/4 channel', 'PRACTICALS', dmx(u2, 301), { position: 'Saloon', groupName: 'Practicals', watts: 2400, notes: 'Mains from quay distro; RCD-protected.' });
+		add('Deck Dimmer 4/4 channel', 'PRACTICALS', dmx(u2, 301), {
+			position: 'Saloon',
+			groupName: 'Practicals',
+			watts: 2400,
+			notes: 'Mains from quay distro; RCD-protected.'
+		});
 
 		// Universe 3: six 8-bit panels, a three-tube link group, and a deliberate overlap
 		for (let i = 0; i < 6; i++) {
-			add('Skiff Panel 60/HSIC 8-bit', `STERN ${i + 1}`, dmx(u3, 1 + i * 4), { position: 'Stern rail', groupName: 'Stern', watts: 90, lookCct: 5600, lookIntensity: 70 });
+			add('Skiff Panel 60/HSIC 8-bit', `STERN ${i + 1}`, dmx(u3, 1 + i * 4), {
+				position: 'Stern rail',
+				groupName: 'Stern',
+				watts: 90,
+				lookCct: 5600,
+				lookIntensity: 70
+			});
 		}
 		for (let i = 0; i < 3; i++) {
 			add('Reed Tube 120/HSIC 8-bit', `BANK TUBE ${i + 1}`, dmx(u3, 41), {
@@ -337,21 +369,57 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 			});
 		}
 		// starts on slot 23 while STERN 6 holds 21–24: the overlap the demo shows off
-		add('Skiff Panel 60/HSIC 8-bit', 'STERN SPARE', dmx(u3, 23), { position: 'Stern, on the deck', groupName: 'Stern', watts: 90, notes: 'Re-address before call: overlaps STERN 6.' });
+		add('Skiff Panel 60/HSIC 8-bit', 'STERN SPARE', dmx(u3, 23), {
+			position: 'Stern, on the deck',
+			groupName: 'Stern',
+			watts: 90,
+			notes: 'Re-address before call: overlaps STERN 6.'
+		});
 
 		// Universe 4: quay balls, and a puck with per-parameter addresses
 		for (let i = 0; i < 4; i++) {
-			add('Lantern Ball 40/CCT 8-bit', `QUAY BALL ${i + 1}`, dmx(u4, 1 + i * 2), { position: `Quay lamp post ${i + 1}`, groupName: 'Quay', watts: 60, lookCct: 2700, lookIntensity: 55 });
+			add('Lantern Ball 40/CCT 8-bit', `QUAY BALL ${i + 1}`, dmx(u4, 1 + i * 2), {
+				position: `Quay lamp post ${i + 1}`,
+				groupName: 'Quay',
+				watts: 60,
+				lookCct: 2700,
+				lookIntensity: 55
+			});
 		}
-		add('Puck 8/HSI 8-bit', 'QUAY PUCK', { controlKind: 'dmx-map', universeId: u4, addressMap: { intensity: 20, hue: 30, saturation: 31 } }, { position: 'Bollard 3', groupName: 'Quay', watts: 8 });
+		add(
+			'Puck 8/HSI 8-bit',
+			'QUAY PUCK',
+			{ controlKind: 'dmx-map', universeId: u4, addressMap: { intensity: 20, hue: 30, saturation: 31 } },
+			{ position: 'Bollard 3', groupName: 'Quay', watts: 8 }
+		);
 
 		// Radio: pucks on the tender boat; two share channels as a link group
-		add('Puck 8/HSI 8-bit', 'TENDER BOW', { controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 1, hue: 2, saturation: 3 } }, { position: 'Tender bow', groupName: 'Tender', watts: 8 });
-		add('Puck 8/HSI 8-bit', 'TENDER STERN', { controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 4, hue: 5, saturation: 6 } }, { position: 'Tender stern', groupName: 'Tender', watts: 8 });
+		add(
+			'Puck 8/HSI 8-bit',
+			'TENDER BOW',
+			{ controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 1, hue: 2, saturation: 3 } },
+			{ position: 'Tender bow', groupName: 'Tender', watts: 8 }
+		);
+		add(
+			'Puck 8/HSI 8-bit',
+			'TENDER STERN',
+			{ controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 4, hue: 5, saturation: 6 } },
+			{ position: 'Tender stern', groupName: 'Tender', watts: 8 }
+		);
 		for (const side of ['PORT', 'STBD']) {
-			add('Puck 8/HSI 8-bit', `TENDER ${side}`, { controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 7, hue: 8, saturation: 9 } }, { position: `Tender gunwale ${side.toLowerCase()}`, groupName: 'Tender', linkGroup: 'TENDER-SIDES', watts: 8 });
+			add(
+				'Puck 8/HSI 8-bit',
+				`TENDER ${side}`,
+				{ controlKind: 'rc', receiverId: rx.id, rcChannels: { intensity: 7, hue: 8, saturation: 9 } },
+				{ position: `Tender gunwale ${side.toLowerCase()}`, groupName: 'Tender', linkGroup: 'TENDER-SIDES', watts: 8 }
+			);
 		}
-		add('Lantern Ball 40/CCT 8-bit', 'HAND LANTERN', { controlKind: 'manual' }, { position: 'Carried by cast', groupName: 'Props', watts: 20, notes: 'Set on the unit: 2700 K, 40 %.' });
+		add(
+			'Lantern Ball 40/CCT 8-bit',
+			'HAND LANTERN',
+			{ controlKind: 'manual' },
+			{ position: 'Carried by cast', groupName: 'Props', watts: 20, notes: 'Set on the unit: 2700 K, 40 %.' }
+		);
 
 		return project.id;
 	});

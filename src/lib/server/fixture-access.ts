@@ -10,8 +10,12 @@ import { ELECTRICIAN_FIELDS } from '../schemas/fixture';
 export function checkFixtureFields(role: Role, bodies: unknown[]): void {
 	if (role !== 'electrician') return;
 	const extra = new Set<string>();
-	for (const b of bodies) for (const k of typeof b === 'object' && b !== null ? Object.keys(b) : []) if (k !== 'id' && !ELECTRICIAN_FIELDS.includes(k)) extra.add(k);
+	for (const b of bodies)
+		for (const k of typeof b === 'object' && b !== null ? Object.keys(b) : [])
+			if (k !== 'id' && !ELECTRICIAN_FIELDS.includes(k)) extra.add(k);
 	if (extra.size > 0) {
-		throw new ApiError(403, `Electricians may change state and notes only, not ${[...extra].join(', ')}.`, { code: 'forbidden' });
+		throw new ApiError(403, `Electricians may change state and notes only, not ${[...extra].join(', ')}.`, {
+			code: 'forbidden'
+		});
 	}
 }

@@ -68,7 +68,10 @@ export function acceptInvitation(token: string, user: { id: string; email: strin
 	const check = checkInvitation(token);
 	if (!check.ok) return check;
 	if (check.invitation.email !== user.email.toLowerCase()) {
-		return { ok: false, reason: `This invitation is for ${check.invitation.email}; you are signed in as ${user.email}.` };
+		return {
+			ok: false,
+			reason: `This invitation is for ${check.invitation.email}; you are signed in as ${user.email}.`
+		};
 	}
 	db().transaction((tx) => {
 		tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, check.invitation.id)).run();

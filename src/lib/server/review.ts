@@ -61,7 +61,10 @@ export function reviewPayload(link: { revisionId: number | null; expiresAt: Date
 			startsOn: project?.startsOn ?? snapshot.project.startsOn,
 			endsOn: project?.endsOn ?? snapshot.project.endsOn
 		},
-		link: { revision: link.revisionId === null ? ('latest' as const) : revision.number, expiresAt: link.expiresAt?.toISOString() ?? null },
+		link: {
+			revision: link.revisionId === null ? ('latest' as const) : revision.number,
+			expiresAt: link.expiresAt?.toISOString() ?? null
+		},
 		revision: revisionShape(revision),
 		patch: { universes, types, receivers, fixtures, conflicts, summary: conflictSummary(conflicts) },
 		diff: approved ? { since: approved.number, ...diffSnapshots(snapshotOf(approved), snapshot) } : null
@@ -95,5 +98,12 @@ export async function signOff(revision: RevisionRow, input: NewSignoff) {
 	);
 	// A slow mail server must not hold the answer: the outbox has the mail either way.
 	await Promise.race([Promise.allSettled(mails), new Promise((r) => setTimeout(r, 5000).unref())]);
-	return { decision: row.decision, name: row.name, comment: row.comment, at: row.createdAt.toISOString(), stale: revision.number < (latestRevision(revision.projectId)?.number ?? revision.number), revision: revision.number };
+	return {
+		decision: row.decision,
+		name: row.name,
+		comment: row.comment,
+		at: row.createdAt.toISOString(),
+		stale: revision.number < (latestRevision(revision.projectId)?.number ?? revision.number),
+		revision: revision.number
+	};
 }

@@ -21,7 +21,10 @@ export const actions: Actions = {
 			await createUser(parsed.data);
 		} catch (err) {
 			if (err instanceof EmailTakenError) {
-				return fail(400, { values, errors: { email: 'An account with this e-mail already exists. Sign in instead.' } as Record<string, string> });
+				return fail(400, {
+					values,
+					errors: { email: 'An account with this e-mail already exists. Sign in instead.' } as Record<string, string>
+				});
 			}
 			throw err;
 		}

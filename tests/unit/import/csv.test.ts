@@ -5,7 +5,17 @@ import { toCsv, CSV_COLUMNS } from '../../../src/lib/server/export/csv';
 
 describe('CSV patch parsing', () => {
 	it('matches headers loosely: case, spaces, punctuation and synonyms', () => {
-		const { columns, ignored } = matchHeaders(['Fixture #', 'Name', 'Manufacturer', 'Fixture Type', 'DMX Mode', 'Univ', 'DMX Address', 'Pos.', 'Colour']);
+		const { columns, ignored } = matchHeaders([
+			'Fixture #',
+			'Name',
+			'Manufacturer',
+			'Fixture Type',
+			'DMX Mode',
+			'Univ',
+			'DMX Address',
+			'Pos.',
+			'Colour'
+		]);
 		expect(columns).toEqual({ number: 0, label: 1, maker: 2, model: 3, mode: 4, universe: 5, address: 6, position: 7 });
 		expect(ignored).toEqual(['Colour']);
 		expect(matchHeaders(['unit', 'ch', 'start']).columns).toEqual({ number: 0, address: 1 });
@@ -35,14 +45,20 @@ describe('CSV patch parsing', () => {
 	});
 
 	it('refuses a file without a number or address column, naming what it found', () => {
-		expect(() => parseCsvPatch('name,colour\nA,red')).toThrow(/no number or universe and address column \(found: name, colour\)/);
+		expect(() => parseCsvPatch('name,colour\nA,red')).toThrow(
+			/no number or universe and address column \(found: name, colour\)/
+		);
 	});
 
 	it('refuses more rows than the bulk fixture API takes in one go (5000)', () => {
 		const rows = Array.from({ length: 5001 }, (_, i) => `${i + 1},1,1`);
-		expect(() => parseCsvPatch(['number,universe,address', ...rows].join('\n'))).toThrow(/5001 rows; import at most 5000/);
+		expect(() => parseCsvPatch(['number,universe,address', ...rows].join('\n'))).toThrow(
+			/5001 rows; import at most 5000/
+		);
 		// trailing blank lines are not rows
-		expect(parseCsvPatch(['number,universe,address', ...rows.slice(0, 5000), '', ''].join('\n')).rows).toHaveLength(5000);
+		expect(parseCsvPatch(['number,universe,address', ...rows.slice(0, 5000), '', ''].join('\n')).rows).toHaveLength(
+			5000
+		);
 	});
 
 	it('a quoted cell with a line break is one row, as a spreadsheet shows it', () => {
@@ -62,7 +78,20 @@ describe('CSV patch parsing', () => {
 describe('CSV export escaping (OWASP CSV injection)', () => {
 	it('prefixes a single quote to text cells starting with = + - @ tab or CR, including multi-line formulas', () => {
 		const row = [1, '=HYPERLINK("x")', '+1', '-2', '@SUM(A1)', '\tx', '\rx', '=A1\n+B1', 'safe', 42];
-		const out = Papa.parse<string[]>(toCsv([row.concat(Array(CSV_COLUMNS.length - row.length).fill(''))]), { header: false }).data[1];
-		expect(out.slice(0, 10)).toEqual(['1', `'=HYPERLINK("x")`, "'+1", "'-2", "'@SUM(A1)", "'\tx", "'\rx", "'=A1\n+B1", 'safe', '42']);
+		const out = Papa.parse<string[]>(toCsv([row.concat(Array(CSV_COLUMNS.length - row.length).fill(''))]), {
+			header: false
+		}).data[1];
+		expect(out.slice(0, 10)).toEqual([
+			'1',
+			`'=HYPERLINK("x")`,
+			"'+1",
+			"'-2",
+			"'@SUM(A1)",
+			"'\tx",
+			"'\rx",
+			"'=A1\n+B1",
+			'safe',
+			'42'
+		]);
 	});
 });

@@ -4,7 +4,6 @@ import { refusal } from '../../helpers/refusal';
 import { parameterFor, parseDmxValue, parseGdtf, parseGdtfXml } from '../../../src/lib/server/import/gdtf';
 import { gdtfZip, PANEL_XML } from '../../helpers/gdtf';
 
-
 describe('GDTF fixture types (DIN SPEC 15800 structure)', () => {
 	const { type, dataVersion } = parseGdtf(gdtfZip());
 	const mode = (name: string) => type.modes.find((m) => m.name === name)!;
@@ -67,7 +66,9 @@ describe('GDTF fixture types (DIN SPEC 15800 structure)', () => {
 	});
 
 	it('falls back to Name when LongName is missing, and accepts DataVersion 1.0 and 1.2', () => {
-		const v10 = parseGdtfXml(PANEL_XML.replace('DataVersion="1.1"', 'DataVersion="1.0"').replace(' LongName="Tidepanel One"', ''));
+		const v10 = parseGdtfXml(
+			PANEL_XML.replace('DataVersion="1.1"', 'DataVersion="1.0"').replace(' LongName="Tidepanel One"', '')
+		);
 		expect(v10.type.model).toBe('Tidepanel');
 		expect(v10.warnings).toEqual([]);
 		expect(parseGdtfXml(PANEL_XML.replace('DataVersion="1.1"', 'DataVersion="1.2"')).warnings).toEqual([]);
@@ -76,10 +77,12 @@ describe('GDTF fixture types (DIN SPEC 15800 structure)', () => {
 	it('refuses a DOCTYPE or entity declaration before parsing', () => {
 		const bomb = `<?xml version="1.0"?><!DOCTYPE lolz [<!ENTITY lol "lol"><!ENTITY lol2 "&lol;&lol;">]><GDTF><FixtureType Name="&lol2;"/></GDTF>`;
 		expect(refusal(() => parseGdtfXml(bomb)).extra.code).toBe('xml-dtd');
-		expect(refusal(() => parseGdtfXml('<GDTF><!ENTITY x SYSTEM "file:///etc/passwd"></GDTF>')).extra.code).toBe('xml-dtd');
+		expect(refusal(() => parseGdtfXml('<GDTF><!ENTITY x SYSTEM "file:///etc/passwd"></GDTF>')).extra.code).toBe(
+			'xml-dtd'
+		);
 	});
 
-	it('refuses overlapping channels with the type schema\'s own message, naming the mode', () => {
+	it("refuses overlapping channels with the type schema's own message, naming the mode", () => {
 		const bad = PANEL_XML.replace('Offset="5" Geometry="Base"', 'Offset="2" Geometry="Base"');
 		const e = refusal(() => parseGdtfXml(bad));
 		expect(e.status).toBe(422);
@@ -89,7 +92,9 @@ describe('GDTF fixture types (DIN SPEC 15800 structure)', () => {
 
 	it('refuses an archive without description.xml and XML without FixtureType', () => {
 		expect(refusal(() => parseGdtf(gdtfZip('<x/>'))).message).toContain('FixtureType');
-		const e = refusal(() => parseGdtfXml('<GDTF><FixtureType Manufacturer="M" Name="N"><DMXModes/></FixtureType></GDTF>'));
+		const e = refusal(() =>
+			parseGdtfXml('<GDTF><FixtureType Manufacturer="M" Name="N"><DMXModes/></FixtureType></GDTF>')
+		);
 		expect(e.message).toContain('at least one mode');
 	});
 });

@@ -5,7 +5,6 @@ import { refusal } from '../../helpers/refusal';
 import { readGdtfArchive } from '../../../src/lib/server/import/gdtf';
 import { guardXml, safeUnzip, sniff, unsafeEntryName } from '../../../src/lib/server/import/limits';
 
-
 describe('upload limits', () => {
 	it('sniffs by content: zip magic PK\\x03\\x04 (APPNOTE.TXT), JSON, text, binary', () => {
 		expect(sniff(zipSync({ a: strToU8('x') }))).toBe('zip');
@@ -23,7 +22,9 @@ describe('upload limits', () => {
 	it('refuses entry names that climb out, are absolute, or use backslashes', () => {
 		for (const n of ['../evil', 'a/../../b', '/etc/passwd', 'C:/x', 'a\\b']) expect(unsafeEntryName(n)).toBe(true);
 		expect(unsafeEntryName('models/3ds/body.3ds')).toBe(false);
-		const e = refusal(() => safeUnzip(zipSync({ 'description.xml': strToU8('<a/>'), '../../x.txt': strToU8('x') }), () => true));
+		const e = refusal(() =>
+			safeUnzip(zipSync({ 'description.xml': strToU8('<a/>'), '../../x.txt': strToU8('x') }), () => true)
+		);
 		expect(e.extra.code).toBe('zip-path');
 	});
 
@@ -50,7 +51,9 @@ describe('upload limits', () => {
 		const cut = zip.slice(0, 60);
 		const e = refusal(() => readGdtfArchive(cut));
 		expect([400, 422]).toContain(e.status);
-		expect(refusal(() => readGdtfArchive(zipSync({ 'other.xml': strToU8('<a/>') }))).message).toContain('no description.xml');
+		expect(refusal(() => readGdtfArchive(zipSync({ 'other.xml': strToU8('<a/>') }))).message).toContain(
+			'no description.xml'
+		);
 	});
 
 	it('refuses DTDs however they are cased', () => {

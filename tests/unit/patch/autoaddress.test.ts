@@ -6,14 +6,37 @@ const fx = (id: number, slots: number, number = id): AutoAddressFixture => ({ id
 
 describe('autoAddress — DESIGN.md auto-address rules (E1.11: 512 slots, no wrap)', () => {
 	it('places first fit in fixture-number order around what is patched', () => {
-		const r = autoAddress({ fixtures: [fx(3, 4, 30), fx(1, 8, 10), fx(2, 2, 20)], occupied: [{ start: 1, end: 4 }, { start: 9, end: 20 }], start: 1 });
+		const r = autoAddress({
+			fixtures: [fx(3, 4, 30), fx(1, 8, 10), fx(2, 2, 20)],
+			occupied: [
+				{ start: 1, end: 4 },
+				{ start: 9, end: 20 }
+			],
+			start: 1
+		});
 		// #10 (8 slots) skips the 4-slot hole at 5–8; #20 (2 slots) then takes it; #30 follows #10.
-		expect(r).toEqual({ placed: [{ fixtureId: 1, address: 21 }, { fixtureId: 2, address: 5 }, { fixtureId: 3, address: 29 }], unplaced: [] });
+		expect(r).toEqual({
+			placed: [
+				{ fixtureId: 1, address: 21 },
+				{ fixtureId: 2, address: 5 },
+				{ fixtureId: 3, address: 29 }
+			],
+			unplaced: []
+		});
 	});
 
 	it('never straddles 512 and says why a fixture did not fit', () => {
-		const r = autoAddress({ fixtures: [fx(1, 8), fx(2, 8), fx(3, 4)], occupied: [], start: 490, universeLabel: 'universe 3' });
-		expect(r.placed).toEqual([{ fixtureId: 1, address: 490 }, { fixtureId: 2, address: 498 }, { fixtureId: 3, address: 506 }]);
+		const r = autoAddress({
+			fixtures: [fx(1, 8), fx(2, 8), fx(3, 4)],
+			occupied: [],
+			start: 490,
+			universeLabel: 'universe 3'
+		});
+		expect(r.placed).toEqual([
+			{ fixtureId: 1, address: 490 },
+			{ fixtureId: 2, address: 498 },
+			{ fixtureId: 3, address: 506 }
+		]);
 		const full = autoAddress({ fixtures: [fx(1, 8), fx(2, 8), fx(3, 8)], start: 490, universeLabel: 'universe 3' });
 		expect(full.unplaced).toEqual([{ fixtureId: 3, reason: 'needs 8 slots; no free run of 8 from 490 in universe 3' }]);
 	});
@@ -27,7 +50,10 @@ describe('autoAddress — DESIGN.md auto-address rules (E1.11: 512 slots, no wra
 
 	it('treats a list of numbers as a sparse set of occupied slots (a dmx-map fixture)', () => {
 		const r = autoAddress({ fixtures: [fx(1, 2), fx(2, 1)], occupied: [[2, 5]] });
-		expect(r.placed).toEqual([{ fixtureId: 1, address: 3 }, { fixtureId: 2, address: 1 }]);
+		expect(r.placed).toEqual([
+			{ fixtureId: 1, address: 3 },
+			{ fixtureId: 2, address: 1 }
+		]);
 	});
 
 	it('leaves the gap free after each placed fixture', () => {
@@ -37,19 +63,33 @@ describe('autoAddress — DESIGN.md auto-address rules (E1.11: 512 slots, no wra
 
 	it('reports what cannot be addressed at all', () => {
 		const r = autoAddress({ fixtures: [fx(1, 0), fx(2, 600)] });
-		expect(r.unplaced.map((u) => u.reason)).toEqual(['takes no DMX slots; nothing to address', 'needs 600 slots; a universe has 512']);
+		expect(r.unplaced.map((u) => u.reason)).toEqual([
+			'takes no DMX slots; nothing to address',
+			'needs 600 slots; a universe has 512'
+		]);
 		expect(() => autoAddress({ fixtures: [], start: 0 })).toThrow(RangeError);
 	});
 
 	it('spills across universes in order', () => {
-		const r = autoAddressAcross({ fixtures: [fx(1, 300), fx(2, 300), fx(3, 200)], universes: [{ universeId: 7 }, { universeId: 8 }] });
+		const r = autoAddressAcross({
+			fixtures: [fx(1, 300), fx(2, 300), fx(3, 200)],
+			universes: [{ universeId: 7 }, { universeId: 8 }]
+		});
 		expect(r.placed).toEqual([
 			{ fixtureId: 1, universeId: 7, address: 1 },
 			{ fixtureId: 2, universeId: 8, address: 1 },
 			{ fixtureId: 3, universeId: 7, address: 301 }
 		]);
-		const none = autoAddressAcross({ fixtures: [fx(1, 300)], universes: [{ universeId: 7, occupied: [{ start: 100, end: 300 }] }, { universeId: 8, start: 300 }] });
-		expect(none.unplaced).toEqual([{ fixtureId: 1, reason: 'needs 300 slots; no free run of 300 in any of the 2 universes' }]);
+		const none = autoAddressAcross({
+			fixtures: [fx(1, 300)],
+			universes: [
+				{ universeId: 7, occupied: [{ start: 100, end: 300 }] },
+				{ universeId: 8, start: 300 }
+			]
+		});
+		expect(none.unplaced).toEqual([
+			{ fixtureId: 1, reason: 'needs 300 slots; no free run of 300 in any of the 2 universes' }
+		]);
 	});
 
 	// speed is measured by `npm run bench` (autopatch-10k); tests never assert timings
@@ -74,7 +114,13 @@ describe('autoAddress — DESIGN.md auto-address rules (E1.11: 512 slots, no wra
 });
 
 // Oracle: the same first fit done slot by slot on a 512-entry array.
-function bruteForce(fixtures: AutoAddressFixture[], occupied: number[], start: number, align: number, gap: number): Map<number, number | null> {
+function bruteForce(
+	fixtures: AutoAddressFixture[],
+	occupied: number[],
+	start: number,
+	align: number,
+	gap: number
+): Map<number, number | null> {
 	const taken = new Array<boolean>(514).fill(false);
 	for (const s of occupied) taken[s] = true;
 	const out = new Map<number, number | null>();

@@ -1,6 +1,17 @@
 import { converter } from 'culori';
 import { describe, expect, it } from 'vitest';
-import { cctSwatch, cctToSrgb, cctToXy, decodeSrgb, encodeSrgb, hsiSwatch, rgbToHex, xyToXyz, xyzToLinearSrgb, xyzToSrgb } from '../../../src/lib/patch';
+import {
+	cctSwatch,
+	cctToSrgb,
+	cctToXy,
+	decodeSrgb,
+	encodeSrgb,
+	hsiSwatch,
+	rgbToHex,
+	xyToXyz,
+	xyzToLinearSrgb,
+	xyzToSrgb
+} from '../../../src/lib/patch';
 
 describe('CCT → CIE 1931 xy (Kim et al. 2002 spline of the Planckian locus)', () => {
 	it('puts 2856 K within 0.002 of CIE illuminant A (0.4476, 0.4074 — CIE 15)', () => {
@@ -64,7 +75,9 @@ describe('XYZ → sRGB (IEC 61966-2-1)', () => {
 					expect(Math.abs(ours[2] - theirs.b)).toBeLessThan(1 / 255);
 					const lin = xyzToLinearSrgb({ X, Y, Z });
 					const theirLin = toLinear({ mode: 'xyz65', x: X, y: Y, z: Z });
-					expect(Math.abs(lin[0] - theirLin.r) + Math.abs(lin[1] - theirLin.g) + Math.abs(lin[2] - theirLin.b)).toBeLessThan(1e-3);
+					expect(
+						Math.abs(lin[0] - theirLin.r) + Math.abs(lin[1] - theirLin.g) + Math.abs(lin[2] - theirLin.b)
+					).toBeLessThan(1e-3);
 					checked++;
 				}
 			}
@@ -78,7 +91,9 @@ describe('XYZ → sRGB (IEC 61966-2-1)', () => {
 			const xyz = xyToXyz(cctToXy(t));
 			const theirs = toRgb({ mode: 'xyz65', x: xyz.X, y: xyz.Y, z: xyz.Z });
 			const ours = xyzToSrgb(xyz);
-			expect(Math.abs(ours[0] - theirs.r) + Math.abs(ours[1] - theirs.g) + Math.abs(ours[2] - theirs.b)).toBeLessThan(3e-3);
+			expect(Math.abs(ours[0] - theirs.r) + Math.abs(ours[1] - theirs.g) + Math.abs(ours[2] - theirs.b)).toBeLessThan(
+				3e-3
+			);
 		}
 	});
 });

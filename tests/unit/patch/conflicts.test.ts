@@ -1,6 +1,16 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { findConflicts, sweep, type Bits, type Conflict, type Mode, type PatchFixture, type PatchInput, type Receiver, type Universe } from '../../../src/lib/patch';
+import {
+	findConflicts,
+	sweep,
+	type Bits,
+	type Conflict,
+	type Mode,
+	type PatchFixture,
+	type PatchInput,
+	type Receiver,
+	type Universe
+} from '../../../src/lib/patch';
 import { channel, dmx, fixture, plainMode, universe } from './factories';
 
 const kinds = (cs: Conflict[]): string[] => cs.map((c) => c.kind);
@@ -14,14 +24,31 @@ describe('conflicts — DESIGN.md rules', () => {
 		const b = dmx(30, 7, { id: 14, number: 14, modeId: 2 });
 		const cs = findConflicts({ universes: [u3], modes, fixtures: [b, a] });
 		expect(cs).toEqual([
-			{ kind: 'overlap', severity: 'error', universeId: 30, slots: [7, 8], fixtureIds: [12, 14], message: 'Fixtures 12 and 14 both claim slots 7–8 of universe 3 — move one.' }
+			{
+				kind: 'overlap',
+				severity: 'error',
+				universeId: 30,
+				slots: [7, 8],
+				fixtureIds: [12, 14],
+				message: 'Fixtures 12 and 14 both claim slots 7–8 of universe 3 — move one.'
+			}
 		]);
 	});
 
 	it('finds overlaps between sparse dmx-map fixtures slot by slot', () => {
-		const sparse: Mode = { id: 3, name: 'map', channels: [channel(1, 'intensity', 16), channel(3, 'hue'), channel(4, 'cct', 16)] };
-		const a = fixture({ kind: 'dmx-map', universeId: 30, addresses: { intensity: 10, hue: 40, cct: 100 } }, { id: 1, number: 1, modeId: 3 });
-		const b = fixture({ kind: 'dmx-map', universeId: 30, addresses: { intensity: 11, hue: 101, cct: 200 } }, { id: 2, number: 2, modeId: 3 });
+		const sparse: Mode = {
+			id: 3,
+			name: 'map',
+			channels: [channel(1, 'intensity', 16), channel(3, 'hue'), channel(4, 'cct', 16)]
+		};
+		const a = fixture(
+			{ kind: 'dmx-map', universeId: 30, addresses: { intensity: 10, hue: 40, cct: 100 } },
+			{ id: 1, number: 1, modeId: 3 }
+		);
+		const b = fixture(
+			{ kind: 'dmx-map', universeId: 30, addresses: { intensity: 11, hue: 101, cct: 200 } },
+			{ id: 2, number: 2, modeId: 3 }
+		);
 		const cs = findConflicts({ universes: [u3], modes: [sparse], fixtures: [a, b] });
 		expect(cs.map((c) => [c.kind, c.slots, c.fixtureIds])).toEqual([['overlap', [11, 101], [1, 2]]]);
 	});
@@ -42,18 +69,33 @@ describe('conflicts — DESIGN.md rules', () => {
 		const fs = [1, 2, 3].map((n) => dmx(30, 9, { id: n, number: n, linkGroup: 'dock' }));
 		const cs = findConflicts({ universes: [u3], modes, fixtures: fs });
 		expect(cs).toEqual([
-			{ kind: 'linked', severity: 'info', universeId: 30, slots: [9], fixtureIds: [1, 2, 3], message: 'Fixtures 1, 2 and 3 are linked (group "dock") on universe 3 address 9.' }
+			{
+				kind: 'linked',
+				severity: 'info',
+				universeId: 30,
+				slots: [9],
+				fixtureIds: [1, 2, 3],
+				message: 'Fixtures 1, 2 and 3 are linked (group "dock") on universe 3 address 9.'
+			}
 		]);
 	});
 
 	it('does not stack different modes at one start: that is an overlap', () => {
-		const cs = findConflicts({ universes: [u3], modes, fixtures: [dmx(30, 1, { id: 1, number: 1 }), dmx(30, 1, { id: 2, number: 2, modeId: 2, linkGroup: null })] });
+		const cs = findConflicts({
+			universes: [u3],
+			modes,
+			fixtures: [dmx(30, 1, { id: 1, number: 1 }), dmx(30, 1, { id: 2, number: 2, modeId: 2, linkGroup: null })]
+		});
 		expect(kinds(cs)).toEqual(['overlap']);
 		expect(cs[0]?.slots).toEqual([1, 2, 3, 4]);
 	});
 
 	it('allows an exact fit ending at 512 and flags 506 for 8 slots as overflow (E1.11: 512 slots)', () => {
-		const ok = findConflicts({ universes: [u3], modes, fixtures: [dmx(30, 505, { modeId: 2 }), dmx(30, 509, { modeId: 1 })] });
+		const ok = findConflicts({
+			universes: [u3],
+			modes,
+			fixtures: [dmx(30, 505, { modeId: 2 }), dmx(30, 509, { modeId: 1 })]
+		});
 		expect(ok.filter((c) => c.kind === 'overflow')).toEqual([]);
 		const over = findConflicts({ universes: [u3], modes, fixtures: [dmx(30, 506, { id: 7, number: 7, modeId: 2 })] });
 		expect(over).toEqual([
@@ -63,13 +105,19 @@ describe('conflicts — DESIGN.md rules', () => {
 				universeId: 30,
 				slots: [506, 507, 508, 509, 510, 511, 512],
 				fixtureIds: [7],
-				message: 'Fixture 7 needs 8 slots from address 506 of universe 3, running to slot 513 past 512 — start it at 505 or lower.'
+				message:
+					'Fixture 7 needs 8 slots from address 506 of universe 3, running to slot 513 past 512 — start it at 505 or lower.'
 			}
 		]);
 	});
 
 	it('flags address 0, 513, a missing universe and an unknown universe as out of range', () => {
-		const fs = [dmx(30, 0, { number: 1 }), dmx(30, 513, { number: 2 }), fixture({ kind: 'dmx', universeId: null, address: 1 }, { number: 3 }), dmx(99, 1, { number: 4 })];
+		const fs = [
+			dmx(30, 0, { number: 1 }),
+			dmx(30, 513, { number: 2 }),
+			fixture({ kind: 'dmx', universeId: null, address: 1 }, { number: 3 }),
+			dmx(99, 1, { number: 4 })
+		];
 		const cs = findConflicts({ universes: [u3], modes, fixtures: fs });
 		expect(kinds(cs)).toEqual(['out-of-range', 'out-of-range', 'out-of-range', 'out-of-range']);
 		expect(cs.map((c) => c.message)).toContain('Fixture 1 has address 0 in universe 3, outside 1–512 — pick 1–509.');
@@ -78,7 +126,10 @@ describe('conflicts — DESIGN.md rules', () => {
 
 	it('flags a dmx-map address out of range or missing', () => {
 		const sparse: Mode = { id: 3, name: 'map', channels: [channel(1, 'intensity'), channel(2, 'hue')] };
-		const f = fixture({ kind: 'dmx-map', universeId: 30, addresses: { intensity: 600 } }, { id: 5, number: 5, modeId: 3 });
+		const f = fixture(
+			{ kind: 'dmx-map', universeId: 30, addresses: { intensity: 600 } },
+			{ id: 5, number: 5, modeId: 3 }
+		);
 		const cs = findConflicts({ universes: [u3], modes: [sparse], fixtures: [f] });
 		expect(cs.map((c) => c.message)).toEqual([
 			'Fixture 5 has no address for hue in universe 3 — give it one from 1 to 512.',
@@ -87,7 +138,12 @@ describe('conflicts — DESIGN.md rules', () => {
 	});
 
 	it('is deterministic whatever order the fixtures come in', () => {
-		const fs = [dmx(30, 1, { number: 5 }), dmx(30, 2, { number: 2 }), dmx(30, 1, { number: 9 }), dmx(30, 510, { number: 1 })];
+		const fs = [
+			dmx(30, 1, { number: 5 }),
+			dmx(30, 2, { number: 2 }),
+			dmx(30, 1, { number: 9 }),
+			dmx(30, 510, { number: 1 })
+		];
 		const once = findConflicts({ universes: [u3], modes, fixtures: fs });
 		expect(findConflicts({ universes: [u3], modes, fixtures: [...fs].reverse() })).toEqual(once);
 		expect(once.length).toBeGreaterThan(2);
@@ -124,12 +180,26 @@ describe('line-overload — EIA-485: 32 unit loads per segment without a splitte
 describe('rc conflicts', () => {
 	const rx: Receiver = { id: 7, protocol: 'sbus', channelCount: 18, name: 'Car' };
 	const modes: Mode[] = [{ id: 1, name: 'rc', channels: [channel(null, 'intensity'), channel(null, 'hue')] }];
-	const rc = (channels: Record<string, number>, over: Partial<PatchFixture> = {}): PatchFixture => fixture({ kind: 'rc', receiverId: 7, channels }, over);
+	const rc = (channels: Record<string, number>, over: Partial<PatchFixture> = {}): PatchFixture =>
+		fixture({ kind: 'rc', receiverId: 7, channels }, over);
 
 	it('flags one channel driving two different parameters', () => {
-		const cs = findConflicts({ universes: [], modes, receivers: [rx], fixtures: [rc({ intensity: 1, hue: 2 }, { id: 1, number: 1 }), rc({ intensity: 3, hue: 1 }, { id: 2, number: 2 })] });
+		const cs = findConflicts({
+			universes: [],
+			modes,
+			receivers: [rx],
+			fixtures: [rc({ intensity: 1, hue: 2 }, { id: 1, number: 1 }), rc({ intensity: 3, hue: 1 }, { id: 2, number: 2 })]
+		});
 		expect(cs).toEqual([
-			{ kind: 'rc-collision', severity: 'error', receiverId: 7, channels: [1], fixtureIds: [1, 2], message: 'Channel 1 of receiver "Car" drives intensity of fixture 1, hue of fixture 2 — give each parameter its own channel, or link the fixtures.' }
+			{
+				kind: 'rc-collision',
+				severity: 'error',
+				receiverId: 7,
+				channels: [1],
+				fixtureIds: [1, 2],
+				message:
+					'Channel 1 of receiver "Car" drives intensity of fixture 1, hue of fixture 2 — give each parameter its own channel, or link the fixtures.'
+			}
 		]);
 	});
 
@@ -137,11 +207,19 @@ describe('rc conflicts', () => {
 		const linked = [1, 2].map((n) => rc({ intensity: 1, hue: 2 }, { id: n, number: n, linkGroup: 'boat' }));
 		expect(findConflicts({ universes: [], modes, receivers: [rx], fixtures: linked })).toEqual([]);
 		const unlinked = [1, 2].map((n) => rc({ intensity: 1, hue: 2 }, { id: n, number: n }));
-		expect(kinds(findConflicts({ universes: [], modes, receivers: [rx], fixtures: unlinked }))).toEqual(['rc-collision', 'rc-collision']);
+		expect(kinds(findConflicts({ universes: [], modes, receivers: [rx], fixtures: unlinked }))).toEqual([
+			'rc-collision',
+			'rc-collision'
+		]);
 	});
 
 	it('warns when a parameter has no channel or one beyond the receiver', () => {
-		const cs = findConflicts({ universes: [], modes, receivers: [{ ...rx, channelCount: 8 }], fixtures: [rc({ intensity: 9 }, { id: 3, number: 3 })] });
+		const cs = findConflicts({
+			universes: [],
+			modes,
+			receivers: [{ ...rx, channelCount: 8 }],
+			fixtures: [rc({ intensity: 9 }, { id: 3, number: 3 })]
+		});
 		expect(cs.map((c) => [c.kind, c.severity, c.channels])).toEqual([
 			['rc-unassigned', 'warning', undefined],
 			['rc-unassigned', 'warning', [9]]
@@ -187,8 +265,19 @@ function oracle(input: PatchInput & { modes: Mode[] }): { overlaps: string[]; st
 		if (slots.length === 0) continue;
 		slotsOf.set(f.id, slots);
 		const c = f.control;
-		const where = c.kind === 'dmx' ? `${c.address}` : c.kind === 'dmx-map' ? mode.channels.filter((ch) => ch.offset !== null).map((ch) => `${ch.parameter}=${c.addresses[ch.parameter]}`).join(',') : '';
-		layout.set(f.id, `${c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : ''}|${c.kind}|${f.typeId}|${f.modeId}|${where}`);
+		const where =
+			c.kind === 'dmx'
+				? `${c.address}`
+				: c.kind === 'dmx-map'
+					? mode.channels
+							.filter((ch) => ch.offset !== null)
+							.map((ch) => `${ch.parameter}=${c.addresses[ch.parameter]}`)
+							.join(',')
+					: '';
+		layout.set(
+			f.id,
+			`${c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : ''}|${c.kind}|${f.typeId}|${f.modeId}|${where}`
+		);
 	}
 	const byId = new Map(input.fixtures.map((f) => [f.id, f]));
 	const universeOf = (id: number): number | null => {
@@ -230,10 +319,20 @@ function oracle(input: PatchInput & { modes: Mode[] }): { overlaps: string[]; st
 }
 
 const modeArb: fc.Arbitrary<Omit<Mode, 'id'>> = fc
-	.array(fc.record({ offset: fc.option(fc.integer({ min: 1, max: 10 }), { freq: 5 }), bits: fc.constantFrom<Bits>(8, 16, 24) }), { minLength: 1, maxLength: 4 })
+	.array(
+		fc.record({
+			offset: fc.option(fc.integer({ min: 1, max: 10 }), { freq: 5 }),
+			bits: fc.constantFrom<Bits>(8, 16, 24)
+		}),
+		{ minLength: 1, maxLength: 4 }
+	)
 	.map((chs) => ({ name: 'm', channels: chs.map((c, i) => channel(c.offset, `p${i}`, c.bits)) }));
 
-const addressArb = fc.oneof(fc.integer({ min: 1, max: 24 }), fc.integer({ min: 0, max: 514 }), fc.constantFrom(505, 506, 509, 511, 512, 513));
+const addressArb = fc.oneof(
+	fc.integer({ min: 1, max: 24 }),
+	fc.integer({ min: 0, max: 514 }),
+	fc.constantFrom(505, 506, 509, 511, 512, 513)
+);
 
 const patchArb = fc.array(modeArb, { minLength: 1, maxLength: 3 }).chain((ms) => {
 	const modes: Mode[] = ms.map((m, i) => ({ ...m, id: i + 1 }));
@@ -266,7 +365,11 @@ const patchArb = fc.array(modeArb, { minLength: 1, maxLength: 3 }).chain((ms) =>
 				typeId: original?.typeId ?? r.typeId,
 				modeId: original?.modeId ?? mode.id,
 				linkGroup: r.linkGroup,
-				control: original?.control ?? (r.sparse ? { kind: 'dmx-map', universeId: r.universeId, addresses } : { kind: 'dmx', universeId: r.universeId, address: r.address })
+				control:
+					original?.control ??
+					(r.sparse
+						? { kind: 'dmx-map', universeId: r.universeId, addresses }
+						: { kind: 'dmx', universeId: r.universeId, address: r.address })
 			});
 		});
 		return { universes, modes, fixtures };
@@ -279,8 +382,14 @@ describe('conflicts — property: sweep equals a brute-force slot-by-slot oracle
 			fc.property(patchArb, (input) => {
 				const cs = findConflicts(input);
 				const want = oracle(input);
-				const overlaps = cs.filter((c) => c.kind === 'overlap').map((c) => `${c.fixtureIds.join(',')}:${(c.slots ?? []).join(' ')}`).sort();
-				const stacks = cs.filter((c) => c.kind === 'shared' || c.kind === 'linked').map((c) => `${c.kind}:${c.fixtureIds.join(',')}`).sort();
+				const overlaps = cs
+					.filter((c) => c.kind === 'overlap')
+					.map((c) => `${c.fixtureIds.join(',')}:${(c.slots ?? []).join(' ')}`)
+					.sort();
+				const stacks = cs
+					.filter((c) => c.kind === 'shared' || c.kind === 'linked')
+					.map((c) => `${c.kind}:${c.fixtureIds.join(',')}`)
+					.sort();
 				expect(overlaps).toEqual(want.overlaps);
 				expect(stacks).toEqual(want.stacks);
 			}),
@@ -291,7 +400,11 @@ describe('conflicts — property: sweep equals a brute-force slot-by-slot oracle
 	it('flags overflow exactly when a claimed slot would pass 512', () => {
 		fc.assert(
 			fc.property(patchArb, (input) => {
-				const over = new Set(findConflicts(input).filter((c) => c.kind === 'overflow').flatMap((c) => c.fixtureIds));
+				const over = new Set(
+					findConflicts(input)
+						.filter((c) => c.kind === 'overflow')
+						.flatMap((c) => c.fixtureIds)
+				);
 				for (const f of input.fixtures) {
 					const c = f.control;
 					const mode = input.modes.find((m) => m.id === f.modeId) as Mode;
@@ -301,7 +414,8 @@ describe('conflicts — property: sweep equals a brute-force slot-by-slot oracle
 							if (ch.offset === null) continue;
 							const a = c.kind === 'dmx' ? c.address : c.addresses[ch.parameter];
 							const first = c.kind === 'dmx' ? (a ?? 0) + ch.offset - 1 : (a ?? 0);
-							if (a !== undefined && Number.isInteger(a) && a >= 1 && a <= 512 && first + bytes(ch.bits) - 1 > 512) expected = true;
+							if (a !== undefined && Number.isInteger(a) && a >= 1 && a <= 512 && first + bytes(ch.bits) - 1 > 512)
+								expected = true;
 						}
 					}
 					expect(over.has(f.id)).toBe(expected);
@@ -314,20 +428,25 @@ describe('conflicts — property: sweep equals a brute-force slot-by-slot oracle
 
 describe('sweep — both sort strategies agree', () => {
 	it('gives the same overlaps and stacks with the counting sort and the comparison sort', () => {
-		const runArb = fc.array(fc.record({ start: fc.integer({ min: 1, max: 40 }), len: fc.integer({ min: 0, max: 6 }) }), { minLength: 1, maxLength: 3 });
-		const claimsArb = fc.array(fc.record({ universe: fc.integer({ min: 0, max: 3 }), runs: runArb }), { maxLength: 25 }).map((cs) =>
-			cs.map((c) => {
-				// Make the runs of one claim disjoint and sorted, as footprints are.
-				const runs: { start: number; end: number }[] = [];
-				let at = 0;
-				for (const r of c.runs) {
-					const start = Math.max(r.start, at + 2);
-					runs.push({ start, end: start + r.len });
-					at = start + r.len;
-				}
-				return { universe: c.universe, runs };
-			})
+		const runArb = fc.array(
+			fc.record({ start: fc.integer({ min: 1, max: 40 }), len: fc.integer({ min: 0, max: 6 }) }),
+			{ minLength: 1, maxLength: 3 }
 		);
+		const claimsArb = fc
+			.array(fc.record({ universe: fc.integer({ min: 0, max: 3 }), runs: runArb }), { maxLength: 25 })
+			.map((cs) =>
+				cs.map((c) => {
+					// Make the runs of one claim disjoint and sorted, as footprints are.
+					const runs: { start: number; end: number }[] = [];
+					let at = 0;
+					for (const r of c.runs) {
+						const start = Math.max(r.start, at + 2);
+						runs.push({ start, end: start + r.len });
+						at = start + r.len;
+					}
+					return { universe: c.universe, runs };
+				})
+			);
 		fc.assert(
 			fc.property(claimsArb, (claims) => {
 				const same = (a: number, b: number): boolean => JSON.stringify(claims[a]) === JSON.stringify(claims[b]);

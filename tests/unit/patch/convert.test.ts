@@ -51,9 +51,11 @@ describe('coarse / fine (DESIGN.md: coarse = v >> 8, fine = v & 255)', () => {
 				expect(joinValue(splitValue(v, 16))).toBe(v);
 			})
 		);
-		fc.assert(fc.property(fc.integer({ min: 0, max: 0xffffff }), (v) => {
-			expect(joinValue(splitValue(v, 24))).toBe(v);
-		}));
+		fc.assert(
+			fc.property(fc.integer({ min: 0, max: 0xffffff }), (v) => {
+				expect(joinValue(splitValue(v, 24))).toBe(v);
+			})
+		);
 	});
 });
 

@@ -17,7 +17,9 @@ const base = (over: Partial<SnapshotFixture> = {}): SnapshotFixture => ({
 describe('diffPatches', () => {
 	it('reports field-level changes, nested control included, and ignores version', () => {
 		const before = { fixtures: [base()] };
-		const after = { fixtures: [base({ label: 'CAR KEY 2', control: { kind: 'dmx', universeId: 3, address: 9 }, version: 5 })] };
+		const after = {
+			fixtures: [base({ label: 'CAR KEY 2', control: { kind: 'dmx', universeId: 3, address: 9 }, version: 5 })]
+		};
 		expect(diffPatches(before, after).changed).toEqual([
 			{
 				fixtureId: 1,
@@ -44,11 +46,20 @@ describe('diffPatches', () => {
 
 	it('matches by id, falls back to fixture number, and lists what was added and removed', () => {
 		const before = { fixtures: [base(), base({ id: 2, number: 102 }), base({ id: 3, number: 103 })] };
-		const after = { fixtures: [base({ id: 20, number: 102, notes: 'swapped unit' }), base(), base({ id: 4, number: 104 })] };
+		const after = {
+			fixtures: [base({ id: 20, number: 102, notes: 'swapped unit' }), base(), base({ id: 4, number: 104 })]
+		};
 		const d = diffPatches(before, after);
 		expect(d.added.map((f) => f.id)).toEqual([4]);
 		expect(d.removed.map((f) => f.id)).toEqual([3]);
-		expect(d.changed).toEqual([{ fixtureId: 20, number: 102, label: 'CAR KEY 1', fields: [{ field: 'notes', before: '', after: 'swapped unit' }] }]);
+		expect(d.changed).toEqual([
+			{
+				fixtureId: 20,
+				number: 102,
+				label: 'CAR KEY 1',
+				fields: [{ field: 'notes', before: '', after: 'swapped unit' }]
+			}
+		]);
 	});
 
 	it('finds nothing between a snapshot and itself, and diffs universes too', () => {
@@ -56,7 +67,12 @@ describe('diffPatches', () => {
 		const d = diffPatches(snap, snap);
 		expect(d.changed).toEqual([]);
 		expect(d.universes.changed).toEqual([]);
-		const moved = diffPatches(snap, { ...snap, universes: [{ id: 1, number: 1, name: 'Dock, stage left', transport: 'sacn' }] });
-		expect(moved.universes.changed).toEqual([{ id: 1, fields: [{ field: 'name', before: 'Dock', after: 'Dock, stage left' }] }]);
+		const moved = diffPatches(snap, {
+			...snap,
+			universes: [{ id: 1, number: 1, name: 'Dock, stage left', transport: 'sacn' }]
+		});
+		expect(moved.universes.changed).toEqual([
+			{ id: 1, fields: [{ field: 'name', before: 'Dock', after: 'Dock, stage left' }] }
+		]);
 	});
 });

@@ -1,5 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { bytesOf, compactSlots, expandRanges, formatSlots, modeSlotCount, parameterSlots, resolveDmx, resolveDmxMap } from '../../../src/lib/patch';
+import {
+	bytesOf,
+	compactSlots,
+	expandRanges,
+	formatSlots,
+	modeSlotCount,
+	parameterSlots,
+	resolveDmx,
+	resolveDmxMap
+} from '../../../src/lib/patch';
 import { channel, plainMode } from './factories';
 
 // Footprint rules are DESIGN.md "Domain model"; 512 slots a universe is ANSI E1.11.
@@ -10,7 +19,11 @@ describe('footprint', () => {
 
 	it('counts a 16-bit mode with a gap up to its highest channel’s last slot', () => {
 		// intensity 16-bit at 1–2, slots 3–4 unused, hue 16-bit at 5–6, strobe at 8
-		const mode = { id: 1, name: 'gap', channels: [channel(1, 'intensity', 16), channel(5, 'hue', 16), channel(8, 'strobe')] };
+		const mode = {
+			id: 1,
+			name: 'gap',
+			channels: [channel(1, 'intensity', 16), channel(5, 'hue', 16), channel(8, 'strobe')]
+		};
 		expect(modeSlotCount(mode)).toBe(8);
 	});
 
@@ -46,22 +59,36 @@ describe('footprint', () => {
 	});
 
 	it('takes a dmx-map fixture’s slots as the union per parameter, in maximal runs', () => {
-		const mode = { id: 1, name: 'm', channels: [channel(1, 'intensity', 16), channel(3, 'hue'), channel(4, 'sat'), channel(null, 'v')] };
+		const mode = {
+			id: 1,
+			name: 'm',
+			channels: [channel(1, 'intensity', 16), channel(3, 'hue'), channel(4, 'sat'), channel(null, 'v')]
+		};
 		const r = resolveDmxMap({ intensity: 100, hue: 7, sat: 102 }, mode);
 		expect(r.problems).toEqual([]);
-		expect(r.runs).toEqual([{ start: 7, end: 7 }, { start: 100, end: 102 }]);
+		expect(r.runs).toEqual([
+			{ start: 7, end: 7 },
+			{ start: 100, end: 102 }
+		]);
 		expect(expandRanges(r.runs)).toEqual([7, 100, 101, 102]);
 	});
 
 	it('reports dmx-map parameters missing, out of range, overflowing or doubled', () => {
-		const mode = { id: 1, name: 'm', channels: [channel(1, 'a', 16), channel(3, 'b'), channel(4, 'c'), channel(5, 'd', 16)] };
+		const mode = {
+			id: 1,
+			name: 'm',
+			channels: [channel(1, 'a', 16), channel(3, 'b'), channel(4, 'c'), channel(5, 'd', 16)]
+		};
 		const r = resolveDmxMap({ a: 512, c: 0, d: 20, constructor: 5 }, mode);
 		expect(r.problems).toEqual([
 			{ kind: 'overflow', parameter: 'a', address: 512, needs: 2, lastSlot: 513 },
 			{ kind: 'out-of-range', parameter: 'b', address: null },
 			{ kind: 'out-of-range', parameter: 'c', address: 0 }
 		]);
-		expect(r.runs).toEqual([{ start: 20, end: 21 }, { start: 512, end: 512 }]);
+		expect(r.runs).toEqual([
+			{ start: 20, end: 21 },
+			{ start: 512, end: 512 }
+		]);
 		const doubled = resolveDmxMap({ a: 10, b: 11, c: 30, d: 31 }, mode);
 		expect(doubled.problems).toEqual([{ kind: 'self-overlap', slots: [11], parameters: ['a', 'b'] }]);
 	});

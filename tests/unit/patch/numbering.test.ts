@@ -1,6 +1,14 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { artnetForUniverse, artnetPortAddress, artnetToPaper, paperToArtnet, sacnMulticastGroup, sacnUniverseFromGroup, splitArtnetPortAddress } from '../../../src/lib/patch';
+import {
+	artnetForUniverse,
+	artnetPortAddress,
+	artnetToPaper,
+	paperToArtnet,
+	sacnMulticastGroup,
+	sacnUniverseFromGroup,
+	splitArtnetPortAddress
+} from '../../../src/lib/patch';
 
 describe('sACN multicast groups — ANSI E1.31 §9.3.1', () => {
 	it('sends universes 1, 256 and 63999 to 239.255.0.1, 239.255.1.0 and 239.255.249.255', () => {
@@ -12,9 +20,11 @@ describe('sACN multicast groups — ANSI E1.31 §9.3.1', () => {
 	});
 
 	it('reads a group back to its universe', () => {
-		fc.assert(fc.property(fc.integer({ min: 1, max: 63999 }), (u) => {
-			expect(sacnUniverseFromGroup(sacnMulticastGroup(u))).toBe(u);
-		}));
+		fc.assert(
+			fc.property(fc.integer({ min: 1, max: 63999 }), (u) => {
+				expect(sacnUniverseFromGroup(sacnMulticastGroup(u))).toBe(u);
+			})
+		);
 		expect(sacnUniverseFromGroup('239.255.0.0')).toBeNull();
 		expect(sacnUniverseFromGroup('239.255.300.1')).toBeNull();
 	});
@@ -30,9 +40,11 @@ describe('Art-Net port-address — Art-Net 4: net 7 bits, sub-net 4, universe 4'
 	});
 
 	it('property: split and join are inverses over 0–32767', () => {
-		fc.assert(fc.property(fc.integer({ min: 0, max: 32767 }), (pa) => {
-			expect(artnetPortAddress(splitArtnetPortAddress(pa))).toBe(pa);
-		}));
+		fc.assert(
+			fc.property(fc.integer({ min: 0, max: 32767 }), (pa) => {
+				expect(artnetPortAddress(splitArtnetPortAddress(pa))).toBe(pa);
+			})
+		);
 	});
 
 	it('applies the project offset: with offset 1, paper universe 1 is port-address 0', () => {

@@ -35,7 +35,9 @@ describe('paper and label grid', () => {
 
 describe('QR runs', () => {
 	it('cover exactly the dark modules of the code (ISO/IEC 18004 module matrix from the qrcode package)', () => {
-		const modules = QRCode.create('http://127.0.0.1:3000/projects/1/fixtures/101', { errorCorrectionLevel: 'M' }).modules;
+		const modules = QRCode.create('http://127.0.0.1:3000/projects/1/fixtures/101', {
+			errorCorrectionLevel: 'M'
+		}).modules;
 		const drawn = new Set<string>();
 		for (const r of qrRuns(modules)) for (let c = r.col; c < r.col + r.length; c++) drawn.add(`${r.row},${c}`);
 		let dark = 0;
@@ -52,7 +54,13 @@ describe('QR runs', () => {
 
 describe('table helpers', () => {
 	it('split the width by share and add up to the whole', () => {
-		const w = columnWidths([{ key: 'a', title: '', width: 1 }, { key: 'b', title: '', width: 3 }], 400);
+		const w = columnWidths(
+			[
+				{ key: 'a', title: '', width: 1 },
+				{ key: 'b', title: '', width: 3 }
+			],
+			400
+		);
 		expect(w[0]).toBe(100);
 		expect(w[0] + w[1]).toBe(400);
 	});
@@ -71,7 +79,12 @@ describe('table helpers', () => {
 describe('what the sheets say', () => {
 	it('write address runs as universe.start–end (common practice on patch sheets)', () => {
 		expect(addressText(7, [{ start: 505, end: 512 }])).toBe('7.505–512');
-		expect(addressText(4, [{ start: 20, end: 20 }, { start: 30, end: 31 }])).toBe('4.20, 4.30–31');
+		expect(
+			addressText(4, [
+				{ start: 20, end: 20 },
+				{ start: 30, end: 31 }
+			])
+		).toBe('4.20, 4.30–31');
 	});
 
 	it('list channels by offset, 16-bit as coarse/fine, and dmx-map by each parameter’s address', () => {
@@ -84,8 +97,12 @@ describe('what the sheets say', () => {
 				{ offset: null, parameter: 'fx', bits: 8 as const, default: 0 }
 			]
 		};
-		expect(channelList(mode, { kind: 'dmx', universeId: 1, address: 100 })).toBe('1/2 intensity · 3 hue · fx (no slot)');
-		expect(channelList(mode, { kind: 'dmx-map', universeId: 1, addresses: { intensity: 20, hue: 30 } })).toBe('intensity @20/21 · hue @30 · fx @–');
+		expect(channelList(mode, { kind: 'dmx', universeId: 1, address: 100 })).toBe(
+			'1/2 intensity · 3 hue · fx (no slot)'
+		);
+		expect(channelList(mode, { kind: 'dmx-map', universeId: 1, addresses: { intensity: 20, hue: 30 } })).toBe(
+			'intensity @20/21 · hue @30 · fx @–'
+		);
 	});
 
 	it('give the SBUS/CRSF value range as raw 172–1811 and 988–2012 µs; PPM in µs; SBUS 17–18 digital (common practice)', () => {
@@ -97,10 +114,15 @@ describe('what the sheets say', () => {
 
 	it('state the sign-off: approved, changes requested, stale once a later revision exists, or none (DESIGN "Revision")', () => {
 		const at = new Date('2026-03-04T10:00:00Z');
-		expect(signoffLine({ decision: 'approved', name: 'Ada', createdAt: at }, null, 3)).toEqual({ state: 'approved', text: 'r3 approved by Ada on 2026-03-04' });
+		expect(signoffLine({ decision: 'approved', name: 'Ada', createdAt: at }, null, 3)).toEqual({
+			state: 'approved',
+			text: 'r3 approved by Ada on 2026-03-04'
+		});
 		expect(signoffLine({ decision: 'approved', name: 'Ada', createdAt: at }, 4, 3).state).toBe('stale');
 		expect(signoffLine({ decision: 'approved', name: 'Ada', createdAt: at }, 4, 3).text).toContain('r4 is newer');
-		expect(signoffLine({ decision: 'changes-requested', name: 'Bo', createdAt: at }, null, 2).text).toBe('r2 changes requested by Bo on 2026-03-04');
+		expect(signoffLine({ decision: 'changes-requested', name: 'Bo', createdAt: at }, null, 2).text).toBe(
+			'r2 changes requested by Bo on 2026-03-04'
+		);
 		expect(signoffLine(undefined, null, 2).state).toBe('none');
 	});
 
@@ -108,7 +130,9 @@ describe('what the sheets say', () => {
 		expect(slugify('The Lantern Ferry — river unit')).toBe('the-lantern-ferry-river-unit');
 		expect(slugify('Ça va? Öl & Tee')).toBe('ca-va-ol-tee');
 		expect(slugify('———')).toBe('project');
-		expect(sheetFileName('patch', 'The Lantern Ferry — river unit', 3)).toBe('the-lantern-ferry-river-unit-patch-r3.pdf');
+		expect(sheetFileName('patch', 'The Lantern Ferry — river unit', 3)).toBe(
+			'the-lantern-ferry-river-unit-patch-r3.pdf'
+		);
 		expect(sheetFileName('labels', 'Rig', null)).toBe('rig-labels-draft.pdf');
 	});
 

@@ -6,7 +6,13 @@ import { pdfPages } from '../../helpers/pdf';
 describe('a 2,000-fixture patch sheet', () => {
 	it('breaks across pages with the column header and the title block on every page', async () => {
 		const patch = bigPatch(2000);
-		const title = { sheet: 'Patch sheet', project: 'Bench rig', revision: 'Revision 7', printed: '2026-05-01T09:00:00.000Z', signoff: 'r7 not signed off' };
+		const title = {
+			sheet: 'Patch sheet',
+			project: 'Bench rig',
+			revision: 'Revision 7',
+			printed: '2026-05-01T09:00:00.000Z',
+			signoff: 'r7 not signed off'
+		};
 		const pages = await pdfPages(await renderPatchSheet(patch, title, 'a4'));
 		expect(pages.length).toBeGreaterThan(40);
 		pages.forEach((p, i) => {

@@ -12,7 +12,16 @@ import { ApiError, type ApiIssue } from '../api';
 import { recordAudit } from './audit';
 import { InUseError, StaleVersionError } from './errors';
 import { db } from './index';
-import { controlColumns, controlOf, fixtureShape, listTypes, loadPatchCached, type FixtureRow, type FixtureShape, type ModeShape } from './patch';
+import {
+	controlColumns,
+	controlOf,
+	fixtureShape,
+	listTypes,
+	loadPatchCached,
+	type FixtureRow,
+	type FixtureShape,
+	type ModeShape
+} from './patch';
 import { fixtures, receivers, universes, uploads } from './schema';
 import { detachFixture } from './universes';
 import type { AutopatchInput, FixtureCreate, FixturePatch } from '../../schemas/fixture';
@@ -35,7 +44,11 @@ function loadContext(projectId: number): Context {
 		typeIds.add(t.id);
 		for (const m of t.modes) modes.set(m.id, { typeId: t.id, mode: m });
 	}
-	const u = db().select({ id: universes.id, number: universes.number }).from(universes).where(eq(universes.projectId, projectId)).all();
+	const u = db()
+		.select({ id: universes.id, number: universes.number })
+		.from(universes)
+		.where(eq(universes.projectId, projectId))
+		.all();
 	const r = db().select().from(receivers).where(eq(receivers.projectId, projectId)).all();
 	const f = db()
 		.select({ id: fixtures.id, number: fixtures.number, kind: fixtures.controlKind, leaderId: fixtures.leaderId })
@@ -88,7 +101,11 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Api
 			if (!mode) break;
 			const slotted = new Set(mode.mode.channels.filter((ch) => ch.offset !== null).map((ch) => ch.parameter));
 			for (const key of Object.keys(c.addresses)) {
-				if (!slotted.has(key)) at(['control', 'addresses', key], `"${key}" is not a parameter of mode "${mode.mode.name}" that takes a slot.`);
+				if (!slotted.has(key))
+					at(
+						['control', 'addresses', key],
+						`"${key}" is not a parameter of mode "${mode.mode.name}" that takes a slot.`
+					);
 			}
 			for (const p of resolveDmxMap(c.addresses, mode.mode).problems) {
 				// a parameter left out is an open item the conflicts list shows, not bad input
@@ -101,7 +118,8 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Api
 			const r = ctx.receivers.get(c.receiverId);
 			if (!r) at(['control', 'receiverId'], 'No such receiver in this project.');
 			for (const [key, ch] of Object.entries(c.channels)) {
-				if (mode && !params.has(key)) at(['control', 'channels', key], `"${key}" is not a parameter of mode "${mode.mode.name}".`);
+				if (mode && !params.has(key))
+					at(['control', 'channels', key], `"${key}" is not a parameter of mode "${mode.mode.name}".`);
 				if (r && ch > r.count) at(['control', 'channels', key], `Receiver "${r.name}" has channels 1–${r.count}.`);
 			}
 			break;
@@ -110,8 +128,12 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Api
 			const leader = ctx.fixtures.get(c.leaderId);
 			if (!leader) at(['control', 'leaderId'], 'No such fixture in this project.');
 			else if (c.leaderId === selfId) at(['control', 'leaderId'], 'A fixture cannot follow itself.');
-			else if (leader.kind === 'follow') at(['control', 'leaderId'], `Fixture ${leader.number} follows another fixture itself; follow its leader.`);
-			if (selfId !== undefined && [...ctx.fixtures.values()].some((o) => o.kind === 'follow' && o.leaderId === selfId)) {
+			else if (leader.kind === 'follow')
+				at(['control', 'leaderId'], `Fixture ${leader.number} follows another fixture itself; follow its leader.`);
+			if (
+				selfId !== undefined &&
+				[...ctx.fixtures.values()].some((o) => o.kind === 'follow' && o.leaderId === selfId)
+			) {
 				at(['control', 'kind'], 'Other fixtures follow this one; a leader cannot follow.');
 			}
 			break;
@@ -161,7 +183,9 @@ function asInput(s: FixtureShape): FixtureCreate {
 }
 
 function refuse(issues: ApiIssue[]): never {
-	throw new ApiError(400, issues.length === 1 ? issues[0].message : `${issues.length} problems; nothing was written.`, { issues });
+	throw new ApiError(400, issues.length === 1 ? issues[0].message : `${issues.length} problems; nothing was written.`, {
+		issues
+	});
 }
 
 function numbersClash(ctx: Context, wanted: { number: number; id?: number; path: Path }[]): void {
@@ -172,15 +196,26 @@ function numbersClash(ctx: Context, wanted: { number: number; id?: number; path:
 	const issues: ApiIssue[] = [];
 	for (const w of wanted) {
 		if (owner.has(w.number) && owner.get(w.number) !== w.id) {
-			issues.push({ path: [...w.path, 'number'], message: `Fixture number ${w.number} is already taken in this project.` });
+			issues.push({
+				path: [...w.path, 'number'],
+				message: `Fixture number ${w.number} is already taken in this project.`
+			});
 		}
 		owner.set(w.number, w.id);
 	}
-	if (issues.length > 0) throw new ApiError(409, issues[0].message + (issues.length > 1 ? ` (and ${issues.length - 1} more)` : ''), { code: 'duplicate', issues });
+	if (issues.length > 0)
+		throw new ApiError(409, issues[0].message + (issues.length > 1 ? ` (and ${issues.length - 1} more)` : ''), {
+			code: 'duplicate',
+			issues
+		});
 }
 
 export function getFixture(projectId: number, id: number): FixtureShape | undefined {
-	const row = db().select().from(fixtures).where(and(eq(fixtures.id, id), eq(fixtures.projectId, projectId))).get();
+	const row = db()
+		.select()
+		.from(fixtures)
+		.where(and(eq(fixtures.id, id), eq(fixtures.projectId, projectId)))
+		.get();
 	return row ? fixtureShape(row) : undefined;
 }
 
@@ -197,7 +232,9 @@ function uniqueAsConflict<T>(write: () => T): T {
 		return write();
 	} catch (err) {
 		if ((err as { code?: string }).code === 'SQLITE_CONSTRAINT_UNIQUE') {
-			throw new ApiError(409, 'A fixture number in this write is already taken; nothing was written.', { code: 'duplicate' });
+			throw new ApiError(409, 'A fixture number in this write is already taken; nothing was written.', {
+				code: 'duplicate'
+			});
 		}
 		throw err;
 	}
@@ -213,9 +250,16 @@ function createFixturesTx(projectId: number, userId: string, inputs: FixtureCrea
 		const many = inputs.length > 1;
 		const issues = inputs.flatMap((f, i) => check(ctx, f, many ? [i] : []));
 		if (issues.length > 0) refuse(issues);
-		numbersClash(ctx, inputs.map((f, i) => ({ number: f.number, path: many ? [i] : [] })));
+		numbersClash(
+			ctx,
+			inputs.map((f, i) => ({ number: f.number, path: many ? [i] : [] }))
+		);
 		return inputs.map((f) => {
-			const row = db().insert(fixtures).values({ projectId, ...columnsOf(f) }).returning().get();
+			const row = db()
+				.insert(fixtures)
+				.values({ projectId, ...columnsOf(f) })
+				.returning()
+				.get();
 			const shape = fixtureShape(row);
 			recordAudit({ projectId, userId, action: 'fixture.create', entity: 'fixture', entityId: row.id, after: shape });
 			return shape;
@@ -230,26 +274,43 @@ function applyChanges(projectId: number, userId: string, changes: FixtureChange[
 	const rows = db()
 		.select()
 		.from(fixtures)
-		.where(and(eq(fixtures.projectId, projectId), inArray(fixtures.id, changes.map((c) => c.id))))
+		.where(
+			and(
+				eq(fixtures.projectId, projectId),
+				inArray(
+					fixtures.id,
+					changes.map((c) => c.id)
+				)
+			)
+		)
 		.all();
 	const byId = new Map(rows.map((r) => [r.id, fixtureShape(r)]));
 	const missing = changes.filter((c) => !byId.has(c.id));
-	if (missing.length > 0) throw new ApiError(404, `No such fixture in this project: id ${missing.map((m) => m.id).join(', ')}.`);
+	if (missing.length > 0)
+		throw new ApiError(404, `No such fixture in this project: id ${missing.map((m) => m.id).join(', ')}.`);
 	const stale = changes.filter((c) => byId.get(c.id)!.version !== c.version);
 	if (stale.length > 0) {
 		if (!many) throw new StaleVersionError(byId.get(stale[0].id));
-		throw new ApiError(409, `${stale.length === 1 ? 'A fixture' : `${stale.length} fixtures`} changed since you read them (ids ${stale.map((s) => s.id).join(', ')}); nothing was written.`, {
-			code: 'stale',
-			stale: stale.map((s) => s.id),
-			current: changes.map((c) => byId.get(c.id))
-		});
+		throw new ApiError(
+			409,
+			`${stale.length === 1 ? 'A fixture' : `${stale.length} fixtures`} changed since you read them (ids ${stale.map((s) => s.id).join(', ')}); nothing was written.`,
+			{
+				code: 'stale',
+				stale: stale.map((s) => s.id),
+				current: changes.map((c) => byId.get(c.id))
+			}
+		);
 	}
 	const merged = changes.map((c) => {
 		const before = byId.get(c.id)!;
 		const { id, version, look, ...fields } = c;
 		void id;
 		void version;
-		return { before, change: c, next: { ...asInput(before), ...fields, look: { ...before.look, ...look } } as FixtureCreate };
+		return {
+			before,
+			change: c,
+			next: { ...asInput(before), ...fields, look: { ...before.look, ...look } } as FixtureCreate
+		};
 	});
 	// a type change without a mode keeps a mode of the wrong type, which the check reports;
 	// only what the change touches is checked, so legacy rows can still take a state or notes change
@@ -261,11 +322,22 @@ function applyChanges(projectId: number, userId: string, changes: FixtureChange[
 	if (issues.length > 0) refuse(issues);
 	numbersClash(
 		ctx,
-		merged.filter((m) => m.change.number !== undefined).map((m) => ({ number: m.next.number, id: m.before.id, path: many ? ['fixtures', changes.indexOf(m.change)] : [] }))
+		merged
+			.filter((m) => m.change.number !== undefined)
+			.map((m) => ({
+				number: m.next.number,
+				id: m.before.id,
+				path: many ? ['fixtures', changes.indexOf(m.change)] : []
+			}))
 	);
 	// numbers move aside first so a batch may swap them without tripping the unique index mid-way
 	const renumbered = merged.filter((m) => m.change.number !== undefined).map((m) => m.before.id);
-	if (renumbered.length > 0) db().update(fixtures).set({ number: sql`-${fixtures.id}` }).where(inArray(fixtures.id, renumbered)).run();
+	if (renumbered.length > 0)
+		db()
+			.update(fixtures)
+			.set({ number: sql`-${fixtures.id}` })
+			.where(inArray(fixtures.id, renumbered))
+			.run();
 	return merged.map(({ before, change, next }) => {
 		// check-and-write in one statement: of two writers holding the same version, exactly one changes the row
 		const row = db()
@@ -294,7 +366,12 @@ export function updateFixtures(projectId: number, userId: string, changes: Fixtu
 export function deleteFixture(projectId: number, userId: string, id: number, detach: boolean): string[] {
 	return db().transaction(() => {
 		const before = requireFixture(projectId, id);
-		const followers = db().select().from(fixtures).where(and(eq(fixtures.projectId, projectId), eq(fixtures.leaderId, id))).orderBy(asc(fixtures.number)).all();
+		const followers = db()
+			.select()
+			.from(fixtures)
+			.where(and(eq(fixtures.projectId, projectId), eq(fixtures.leaderId, id)))
+			.orderBy(asc(fixtures.number))
+			.all();
 		if (followers.length > 0 && !detach) {
 			throw new InUseError(
 				`${followers.length === 1 ? 'Fixture' : 'Fixtures'} ${followers.map((f) => f.number).join(', ')} follow fixture ${before.number}; delete with ?detach=true to set them to manual.`,
@@ -313,22 +390,36 @@ export function deleteFixture(projectId: number, userId: string, id: number, det
  * The engine's first-fit placement into one universe around what is already patched there
  * (the fixtures being placed do not count as occupying their old slots).
  */
-export function autopatch(projectId: number, userId: string, input: AutopatchInput): AutoAddressResult & { applied: boolean } {
+export function autopatch(
+	projectId: number,
+	userId: string,
+	input: AutopatchInput
+): AutoAddressResult & { applied: boolean } {
 	return db().transaction(() => {
 		const patch = loadPatchCached(projectId);
 		const universe = patch.universes.find((u) => u.id === input.universeId);
-		if (!universe) throw new ApiError(400, 'No such universe in this project.', { issues: [{ path: ['universeId'], message: 'No such universe in this project.' }] });
+		if (!universe)
+			throw new ApiError(400, 'No such universe in this project.', {
+				issues: [{ path: ['universeId'], message: 'No such universe in this project.' }]
+			});
 		const moving = new Set(input.fixtureIds);
 		const chosen = patch.fixtures.filter((f) => moving.has(f.id));
 		if (chosen.length !== moving.size) {
 			const known = new Set(chosen.map((f) => f.id));
 			const stray = input.fixtureIds.filter((f) => !known.has(f));
-			throw new ApiError(400, `No such fixtures in this project: ${stray.join(', ')}.`, { issues: [{ path: ['fixtureIds'], message: `Unknown ids ${stray.join(', ')}.` }] });
+			throw new ApiError(400, `No such fixtures in this project: ${stray.join(', ')}.`, {
+				issues: [{ path: ['fixtureIds'], message: `Unknown ids ${stray.join(', ')}.` }]
+			});
 		}
 		const slotsOf = new Map<number, number>();
 		for (const t of patch.types) for (const m of t.modes) slotsOf.set(m.id, m.slots);
 		const occupied = patch.fixtures
-			.filter((f) => !moving.has(f.id) && (f.control.kind === 'dmx' || f.control.kind === 'dmx-map') && f.control.universeId === input.universeId)
+			.filter(
+				(f) =>
+					!moving.has(f.id) &&
+					(f.control.kind === 'dmx' || f.control.kind === 'dmx-map') &&
+					f.control.universeId === input.universeId
+			)
 			.flatMap((f) => f.slots);
 		const result = autoAddress({
 			fixtures: chosen.map((f) => ({ id: f.id, number: f.number, slots: slotsOf.get(f.modeId) ?? 0 })),
@@ -344,11 +435,23 @@ export function autopatch(projectId: number, userId: string, input: AutopatchInp
 				const before = byId.get(p.fixtureId)!;
 				const row = db()
 					.update(fixtures)
-					.set({ ...controlColumns({ kind: 'dmx', universeId: input.universeId, address: p.address }), version: sql`${fixtures.version} + 1`, updatedAt: new Date() })
+					.set({
+						...controlColumns({ kind: 'dmx', universeId: input.universeId, address: p.address }),
+						version: sql`${fixtures.version} + 1`,
+						updatedAt: new Date()
+					})
 					.where(eq(fixtures.id, p.fixtureId))
 					.returning()
 					.get()!;
-				recordAudit({ projectId, userId, action: 'fixture.autopatch', entity: 'fixture', entityId: p.fixtureId, before: { control: before.control, version: before.version }, after: { control: controlOf(row), version: row.version } });
+				recordAudit({
+					projectId,
+					userId,
+					action: 'fixture.autopatch',
+					entity: 'fixture',
+					entityId: p.fixtureId,
+					before: { control: before.control, version: before.version },
+					after: { control: controlOf(row), version: row.version }
+				});
 			}
 		}
 		return { ...result, applied: input.apply };

@@ -12,15 +12,7 @@ import {
 } from '../../patch/index';
 import { db } from './index';
 import { getProject, projectShape, type Project } from './projects';
-import {
-	fixtureTypes,
-	fixtures,
-	modeChannels,
-	modes,
-	receiverLabels,
-	receivers,
-	universes
-} from './schema';
+import { fixtureTypes, fixtures, modeChannels, modes, receiverLabels, receivers, universes } from './schema';
 
 // The one place rows become the API's shapes (DESIGN.md "Shapes"). The JSON
 // API, the printed sheets, revisions and exports all read the patch here.
@@ -109,9 +101,19 @@ export function controlColumns(control: FixtureControl) {
 		case 'dmx':
 			return { ...cleared, controlKind: 'dmx' as const, universeId: control.universeId, address: control.address };
 		case 'dmx-map':
-			return { ...cleared, controlKind: 'dmx-map' as const, universeId: control.universeId, addressMap: { ...control.addresses } };
+			return {
+				...cleared,
+				controlKind: 'dmx-map' as const,
+				universeId: control.universeId,
+				addressMap: { ...control.addresses }
+			};
 		case 'rc':
-			return { ...cleared, controlKind: 'rc' as const, receiverId: control.receiverId, rcChannels: { ...control.channels } };
+			return {
+				...cleared,
+				controlKind: 'rc' as const,
+				receiverId: control.receiverId,
+				rcChannels: { ...control.channels }
+			};
 		case 'follow':
 			return { ...cleared, controlKind: 'follow' as const, leaderId: control.leaderId };
 		default:
@@ -168,14 +170,24 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 	const modeRows = db()
 		.select()
 		.from(modes)
-		.where(inArray(modes.typeId, typeRows.map((t) => t.id)))
+		.where(
+			inArray(
+				modes.typeId,
+				typeRows.map((t) => t.id)
+			)
+		)
 		.orderBy(asc(modes.position), asc(modes.id))
 		.all();
 	const channelRows = modeRows.length
 		? db()
 				.select()
 				.from(modeChannels)
-				.where(inArray(modeChannels.modeId, modeRows.map((m) => m.id)))
+				.where(
+					inArray(
+						modeChannels.modeId,
+						modeRows.map((m) => m.id)
+					)
+				)
 				.orderBy(asc(modeChannels.position), asc(modeChannels.id))
 				.all()
 		: [];
@@ -221,12 +233,22 @@ export function listUniverses(projectId: number): UniverseShape[] {
 }
 
 export function listReceivers(projectId: number): ReceiverShape[] {
-	const rows = db().select().from(receivers).where(eq(receivers.projectId, projectId)).orderBy(asc(receivers.name), asc(receivers.id)).all();
+	const rows = db()
+		.select()
+		.from(receivers)
+		.where(eq(receivers.projectId, projectId))
+		.orderBy(asc(receivers.name), asc(receivers.id))
+		.all();
 	if (rows.length === 0) return [];
 	const labels = db()
 		.select()
 		.from(receiverLabels)
-		.where(inArray(receiverLabels.receiverId, rows.map((r) => r.id)))
+		.where(
+			inArray(
+				receiverLabels.receiverId,
+				rows.map((r) => r.id)
+			)
+		)
 		.all();
 	const byReceiver = new Map<number, Record<string, string>>();
 	for (const l of labels) {

@@ -57,7 +57,13 @@ function photoRow(projectId: number, fixtureId: number, id: number): UploadRow {
 }
 
 /** Writes the file first (under a random name), then the row; a failed insert removes the file. */
-export function addPhoto(projectId: number, userId: string, fixtureId: number, bytes: Uint8Array, originalName: string): PhotoShape {
+export function addPhoto(
+	projectId: number,
+	userId: string,
+	fixtureId: number,
+	bytes: Uint8Array,
+	originalName: string
+): PhotoShape {
 	if (bytes.byteLength > MAX_PHOTO_BYTES) throw new ApiError(413, 'Photos are limited to 10 MB.');
 	const kind = sniffImage(bytes);
 	if (!kind) throw new ApiError(415, 'Send a JPEG, PNG or WebP image.');
@@ -100,7 +106,14 @@ export function deletePhoto(projectId: number, userId: string, fixtureId: number
 	const row = db().transaction(() => {
 		const r = photoRow(projectId, fixtureId, id);
 		db().delete(uploads).where(eq(uploads.id, id)).run();
-		recordAudit({ projectId, userId, action: 'photo.delete', entity: 'upload', entityId: id, before: photoShape(projectId, r) });
+		recordAudit({
+			projectId,
+			userId,
+			action: 'photo.delete',
+			entity: 'upload',
+			entityId: id,
+			before: photoShape(projectId, r)
+		});
 		return r;
 	});
 	removeStoredFiles([row.storedName]);

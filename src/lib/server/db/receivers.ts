@@ -14,7 +14,11 @@ export function getReceiver(projectId: number, id: number): ReceiverShape | unde
 }
 
 function requireRow(projectId: number, id: number) {
-	const row = db().select().from(receivers).where(and(eq(receivers.id, id), eq(receivers.projectId, projectId))).get();
+	const row = db()
+		.select()
+		.from(receivers)
+		.where(and(eq(receivers.id, id), eq(receivers.projectId, projectId)))
+		.get();
 	if (!row) throw new ApiError(404, 'No such receiver in this project.');
 	return row;
 }
@@ -29,9 +33,13 @@ function labelsBeyond(protocol: ReceiverShape['protocol'], labels: Record<string
 	const count = defaultChannelCount(protocol);
 	const beyond = Object.keys(labels).filter((k) => Number(k) > count);
 	if (beyond.length > 0) {
-		throw new ApiError(400, `A ${protocol} receiver has channels 1–${count}; labels for ${beyond.join(', ')} do not fit.`, {
-			issues: beyond.map((k) => ({ path: ['labels', k], message: `${protocol} has channels 1–${count}.` }))
-		});
+		throw new ApiError(
+			400,
+			`A ${protocol} receiver has channels 1–${count}; labels for ${beyond.join(', ')} do not fit.`,
+			{
+				issues: beyond.map((k) => ({ path: ['labels', k], message: `${protocol} has channels 1–${count}.` }))
+			}
+		);
 	}
 }
 
@@ -39,7 +47,11 @@ export function createReceiver(projectId: number, userId: string, input: Receive
 	return db().transaction(() => {
 		const { labels, ...fields } = input;
 		labelsBeyond(fields.protocol, labels);
-		const row = db().insert(receivers).values({ projectId, ...fields }).returning().get();
+		const row = db()
+			.insert(receivers)
+			.values({ projectId, ...fields })
+			.returning()
+			.get();
 		writeLabels(row.id, labels);
 		const shape = receiverShape(row, labels);
 		recordAudit({ projectId, userId, action: 'receiver.create', entity: 'receiver', entityId: row.id, after: shape });
@@ -73,7 +85,12 @@ export function deleteReceiver(projectId: number, userId: string, id: number, de
 	db().transaction(() => {
 		requireRow(projectId, id);
 		const before = getReceiver(projectId, id)!;
-		const users = db().select().from(fixtures).where(and(eq(fixtures.projectId, projectId), eq(fixtures.receiverId, id))).orderBy(asc(fixtures.number)).all();
+		const users = db()
+			.select()
+			.from(fixtures)
+			.where(and(eq(fixtures.projectId, projectId), eq(fixtures.receiverId, id)))
+			.orderBy(asc(fixtures.number))
+			.all();
 		if (users.length > 0 && !detach) {
 			throw new InUseError(
 				`Receiver "${before.name}" drives ${users.length === 1 ? 'fixture' : 'fixtures'} ${users.map((f) => f.number).join(', ')}; move them first or delete with ?detach=true to set them to manual.`,
@@ -96,20 +113,32 @@ export interface AssignOptions {
  * The engine's assignRc over the RC fixtures of one receiver. With fixtureIds only those are
  * (re)assigned: the others keep their channels and the engine treats them as taken.
  */
-export function assignReceiver(projectId: number, userId: string, id: number, o: AssignOptions): AssignRcResult & { applied: boolean } {
+export function assignReceiver(
+	projectId: number,
+	userId: string,
+	id: number,
+	o: AssignOptions
+): AssignRcResult & { applied: boolean } {
 	return db().transaction(() => {
 		const receiver = requireRow(projectId, id);
-		const rows = db().select().from(fixtures).where(and(eq(fixtures.projectId, projectId), eq(fixtures.receiverId, id), eq(fixtures.controlKind, 'rc'))).all();
+		const rows = db()
+			.select()
+			.from(fixtures)
+			.where(and(eq(fixtures.projectId, projectId), eq(fixtures.receiverId, id), eq(fixtures.controlKind, 'rc')))
+			.all();
 		const chosen = new Set(o.fixtureIds ?? rows.map((f) => f.id));
 		const known = new Set(rows.map((f) => f.id));
 		const stray = [...chosen].filter((f) => !known.has(f));
 		if (stray.length > 0) {
 			throw new ApiError(400, `Fixture ids ${stray.join(', ')} are not on RC through this receiver.`, {
-				issues: [{ path: ['fixtureIds'], message: `Not RC fixtures of receiver "${receiver.name}": ${stray.join(', ')}.` }]
+				issues: [
+					{ path: ['fixtureIds'], message: `Not RC fixtures of receiver "${receiver.name}": ${stray.join(', ')}.` }
+				]
 			});
 		}
 		const modeParams = new Map<number, string[]>();
-		for (const t of listTypes(projectId)) for (const m of t.modes) modeParams.set(m.id, [...new Set(m.channels.map((c) => c.parameter))]);
+		for (const t of listTypes(projectId))
+			for (const m of t.modes) modeParams.set(m.id, [...new Set(m.channels.map((c) => c.parameter))]);
 		const partial = o.fixtureIds !== undefined;
 		const result = assignRc({
 			receiver: { id: receiver.id, protocol: receiver.protocol, name: receiver.name },
@@ -140,7 +169,15 @@ export function assignReceiver(projectId: number, userId: string, id: number, o:
 					.set({ rcChannels: channels, version: sql`${fixtures.version} + 1`, updatedAt: new Date() })
 					.where(eq(fixtures.id, f.id))
 					.run();
-				recordAudit({ projectId, userId, action: 'fixture.rc-assign', entity: 'fixture', entityId: f.id, before: { rcChannels: f.rcChannels }, after: { rcChannels: channels } });
+				recordAudit({
+					projectId,
+					userId,
+					action: 'fixture.rc-assign',
+					entity: 'fixture',
+					entityId: f.id,
+					before: { rcChannels: f.rcChannels },
+					after: { rcChannels: channels }
+				});
 			}
 		}
 		return { assigned, unassigned, applied: o.apply };

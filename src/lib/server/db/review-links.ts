@@ -40,7 +40,14 @@ export function createReviewLink(
 			})
 			.returning()
 			.get();
-		recordAudit({ projectId, userId, action: 'review-link.create', entity: 'review-link', entityId: row.id, after: { revisionId: row.revisionId, label: row.label, expiresAt: row.expiresAt } });
+		recordAudit({
+			projectId,
+			userId,
+			action: 'review-link.create',
+			entity: 'review-link',
+			entityId: row.id,
+			after: { revisionId: row.revisionId, label: row.label, expiresAt: row.expiresAt }
+		});
 		return { row, token };
 	});
 }
@@ -75,7 +82,11 @@ export function listReviewLinks(projectId: number): ReviewLinkShape[] {
 /** Revoking keeps the row (sign-offs made through it still name it); false when there is no such link. */
 export function revokeReviewLink(projectId: number, id: number, userId: string): boolean {
 	return db().transaction(() => {
-		const row = db().select().from(reviewLinks).where(and(eq(reviewLinks.id, id), eq(reviewLinks.projectId, projectId))).get();
+		const row = db()
+			.select()
+			.from(reviewLinks)
+			.where(and(eq(reviewLinks.id, id), eq(reviewLinks.projectId, projectId)))
+			.get();
 		if (!row) return false;
 		if (row.revokedAt) return true;
 		db()
@@ -99,7 +110,11 @@ export type TokenLookup =
 /** Resolves a token to its link and revision; a "latest" link resolves at request time. */
 export function lookupToken(token: string): TokenLookup {
 	if (!TOKEN_SHAPE.test(token)) return { status: 'not-found' };
-	const link = db().select().from(reviewLinks).where(eq(reviewLinks.tokenHash, hashToken(token))).get();
+	const link = db()
+		.select()
+		.from(reviewLinks)
+		.where(eq(reviewLinks.tokenHash, hashToken(token)))
+		.get();
 	if (!link) return { status: 'not-found' };
 	const status = linkStatus(link);
 	if (status !== 'active') return { status, link };

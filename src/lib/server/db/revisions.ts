@@ -2,7 +2,18 @@ import { and, asc, desc, eq, inArray, lt, sql } from 'drizzle-orm';
 import { diffPatches, type PatchDiff, type PatchSnapshot } from '../../patch/index';
 import { recordAudit } from './audit';
 import { db } from './index';
-import { computeFor, listFixtures, listReceivers, listTypes, listUniverses, type FixtureShape, type PatchData, type ReceiverShape, type TypeShape, type UniverseShape } from './patch';
+import {
+	computeFor,
+	listFixtures,
+	listReceivers,
+	listTypes,
+	listUniverses,
+	type FixtureShape,
+	type PatchData,
+	type ReceiverShape,
+	type TypeShape,
+	type UniverseShape
+} from './patch';
 import { getProject, projectShape, type Project } from './projects';
 import { revisions, signoffs, type Decision } from './schema';
 
@@ -58,7 +69,11 @@ export function diffSnapshots(before: RevisionSnapshot, after: RevisionSnapshot)
 }
 
 /** Snapshots the live patch as the next revision; number and snapshot are read inside one transaction. */
-export function createRevision(projectId: number, author: { id: string; name: string | null; email: string }, note: string): RevisionRow {
+export function createRevision(
+	projectId: number,
+	author: { id: string; name: string | null; email: string },
+	note: string
+): RevisionRow {
 	return db().transaction((tx) => {
 		const next =
 			tx
@@ -78,7 +93,14 @@ export function createRevision(projectId: number, author: { id: string; name: st
 			})
 			.returning()
 			.get();
-		recordAudit({ projectId, userId: author.id, action: 'revision.create', entity: 'revision', entityId: row.number, after: { number: row.number, note } });
+		recordAudit({
+			projectId,
+			userId: author.id,
+			action: 'revision.create',
+			entity: 'revision',
+			entityId: row.number,
+			after: { number: row.number, note }
+		});
 		return row;
 	});
 }
@@ -96,7 +118,13 @@ export function getRevisionById(id: number): RevisionRow | undefined {
 }
 
 export function latestRevision(projectId: number): RevisionRow | undefined {
-	return db().select().from(revisions).where(eq(revisions.projectId, projectId)).orderBy(desc(revisions.number)).limit(1).get();
+	return db()
+		.select()
+		.from(revisions)
+		.where(eq(revisions.projectId, projectId))
+		.orderBy(desc(revisions.number))
+		.limit(1)
+		.get();
 }
 
 /** The newest revision with an approval, optionally only among those numbered below `before`. */
@@ -132,7 +160,11 @@ function signoffsFor(revisionIds: number[]) {
 }
 
 /** Stale is computed at read time: a sign-off speaks for its revision only, so a later revision supersedes it. */
-function shape(r: Omit<RevisionRow, 'snapshot'>, rows: (typeof signoffs.$inferSelect)[], latestNumber: number): RevisionShape {
+function shape(
+	r: Omit<RevisionRow, 'snapshot'>,
+	rows: (typeof signoffs.$inferSelect)[],
+	latestNumber: number
+): RevisionShape {
 	return {
 		number: r.number,
 		note: r.note,

@@ -13,22 +13,11 @@ import {
 // Names follow ../shared/DESIGN.md ("Domain model"); keep them in step with the
 // API shapes and the UI.
 
-export const ROLES = ['owner', 'programmer', 'electrician', 'viewer'] as const;
-export type Role = (typeof ROLES)[number];
-
-export const TRANSPORTS = ['dmx-wired', 'dmx-wireless', 'sacn', 'artnet'] as const;
-export type Transport = (typeof TRANSPORTS)[number];
-
-export const CONTROL_KINDS = ['dmx', 'dmx-map', 'rc', 'follow', 'manual'] as const;
-export type ControlKind = (typeof CONTROL_KINDS)[number];
-
-export const FIXTURE_STATES = ['planned', 'hung', 'addressed', 'checked', 'fault'] as const;
-export type FixtureState = (typeof FIXTURE_STATES)[number];
-
-export const RC_PROTOCOLS = ['sbus', 'crsf', 'ppm'] as const;
-export type RcProtocol = (typeof RC_PROTOCOLS)[number];
-
-export const DECISIONS = ['approved', 'changes-requested'] as const;
+// The vocabularies live in the client-safe src/lib/vocab.ts; re-exported for the server's imports.
+import { CONTROL_KINDS, FIXTURE_STATES, RC_PROTOCOLS, ROLES, SIGNOFF_DECISIONS, TRANSPORTS } from '../../vocab';
+export { CONTROL_KINDS, FIXTURE_STATES, RC_PROTOCOLS, ROLES, TRANSPORTS };
+export type { ControlKind, FixtureState, RcProtocol, Role, Transport } from '../../vocab';
+export const DECISIONS = SIGNOFF_DECISIONS;
 export type Decision = (typeof DECISIONS)[number];
 
 const now = sql`(unixepoch('subsec') * 1000)`;

@@ -34,7 +34,13 @@ export function createSignoff(revision: RevisionRow, input: NewSignoff) {
 			action: 'signoff.create',
 			entity: 'signoff',
 			entityId: row.id,
-			after: { revision: revision.number, decision: row.decision, name: row.name, comment: row.comment, reviewLinkId: row.reviewLinkId }
+			after: {
+				revision: revision.number,
+				decision: row.decision,
+				name: row.name,
+				comment: row.comment,
+				reviewLinkId: row.reviewLinkId
+			}
 		});
 		return row;
 	});

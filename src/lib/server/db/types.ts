@@ -12,7 +12,11 @@ export function getType(projectId: number, id: number): TypeShape | undefined {
 }
 
 function requireRow(projectId: number, id: number) {
-	const row = db().select().from(fixtureTypes).where(and(eq(fixtureTypes.id, id), eq(fixtureTypes.projectId, projectId))).get();
+	const row = db()
+		.select()
+		.from(fixtureTypes)
+		.where(and(eq(fixtureTypes.id, id), eq(fixtureTypes.projectId, projectId)))
+		.get();
 	if (!row) throw new ApiError(404, 'No such fixture type in this project.');
 	return row;
 }
@@ -56,9 +60,15 @@ function fixturesUsing(column: typeof fixtures.typeId | typeof fixtures.modeId, 
 export function createType(projectId: number, userId: string, input: TypeCreate): TypeShape {
 	return db().transaction(() => {
 		if (input.modes.some((m) => m.id !== undefined)) {
-			throw new ApiError(400, 'A new type has no mode ids yet; leave id out.', { issues: [{ path: ['modes'], message: 'Leave mode ids out on create.' }] });
+			throw new ApiError(400, 'A new type has no mode ids yet; leave id out.', {
+				issues: [{ path: ['modes'], message: 'Leave mode ids out on create.' }]
+			});
 		}
-		const row = db().insert(fixtureTypes).values({ projectId, maker: input.maker, model: input.model, notes: input.notes }).returning().get();
+		const row = db()
+			.insert(fixtureTypes)
+			.values({ projectId, maker: input.maker, model: input.model, notes: input.notes })
+			.returning()
+			.get();
 		input.modes.forEach((m, i) => insertMode(row.id, m, i));
 		const shape = getType(projectId, row.id)!;
 		recordAudit({ projectId, userId, action: 'type.create', entity: 'fixture_type', entityId: row.id, after: shape });
@@ -89,12 +99,18 @@ export function updateType(projectId: number, userId: string, id: number, patch:
 			const foreign = modeList.filter((m) => m.id !== undefined && !existing.has(m.id));
 			if (foreign.length > 0) {
 				throw new ApiError(400, `Mode ids ${foreign.map((m) => m.id).join(', ')} are not modes of this type.`, {
-					issues: foreign.map((m) => ({ path: ['modes', modeList.indexOf(m), 'id'], message: 'Not a mode of this type.' }))
+					issues: foreign.map((m) => ({
+						path: ['modes', modeList.indexOf(m), 'id'],
+						message: 'Not a mode of this type.'
+					}))
 				});
 			}
 			const kept = new Set(modeList.map((m) => m.id).filter((m): m is number => m !== undefined));
 			const dropped = before.modes.filter((m) => !kept.has(m.id));
-			const users = fixturesUsing(fixtures.modeId, dropped.map((m) => m.id));
+			const users = fixturesUsing(
+				fixtures.modeId,
+				dropped.map((m) => m.id)
+			);
 			if (users.length > 0) {
 				const names = dropped.filter((m) => users.some((u) => u.modeId === m.id)).map((m) => `"${m.name}"`);
 				throw new InUseError(
@@ -102,7 +118,16 @@ export function updateType(projectId: number, userId: string, id: number, patch:
 					users.map((u) => ({ id: u.id, number: u.number, label: u.label, modeId: u.modeId }))
 				);
 			}
-			if (dropped.length > 0) db().delete(modes).where(inArray(modes.id, dropped.map((m) => m.id))).run();
+			if (dropped.length > 0)
+				db()
+					.delete(modes)
+					.where(
+						inArray(
+							modes.id,
+							dropped.map((m) => m.id)
+						)
+					)
+					.run();
 			modeList.forEach((m, position) => {
 				if (m.id === undefined) return insertMode(id, m, position);
 				db().update(modes).set({ name: m.name, position }).where(eq(modes.id, m.id)).run();

@@ -19,7 +19,11 @@ export function getUniverseComputed(projectId: number, id: number): UniverseWith
 }
 
 export function universeRow(projectId: number, id: number) {
-	return db().select().from(universes).where(and(eq(universes.id, id), eq(universes.projectId, projectId))).get();
+	return db()
+		.select()
+		.from(universes)
+		.where(and(eq(universes.id, id), eq(universes.projectId, projectId)))
+		.get();
 }
 
 function requireUniverse(projectId: number, id: number) {
@@ -47,14 +51,30 @@ function duplicate(number: number): ApiError {
 export function createUniverse(projectId: number, userId: string, input: UniverseCreate): UniverseWithNumbers {
 	const id = db().transaction(() => {
 		if (numberTaken(projectId, input.number)) throw duplicate(input.number);
-		const row = db().insert(universes).values({ projectId, ...input }).returning().get();
-		recordAudit({ projectId, userId, action: 'universe.create', entity: 'universe', entityId: row.id, after: universeShape(row) });
+		const row = db()
+			.insert(universes)
+			.values({ projectId, ...input })
+			.returning()
+			.get();
+		recordAudit({
+			projectId,
+			userId,
+			action: 'universe.create',
+			entity: 'universe',
+			entityId: row.id,
+			after: universeShape(row)
+		});
 		return row.id;
 	});
 	return getUniverseComputed(projectId, id)!;
 }
 
-export function updateUniverse(projectId: number, userId: string, id: number, patch: UniversePatch): UniverseWithNumbers {
+export function updateUniverse(
+	projectId: number,
+	userId: string,
+	id: number,
+	patch: UniversePatch
+): UniverseWithNumbers {
 	db().transaction(() => {
 		const before = requireUniverse(projectId, id);
 		const { version, ...fields } = patch;
@@ -68,7 +88,15 @@ export function updateUniverse(projectId: number, userId: string, id: number, pa
 			.returning()
 			.get();
 		if (!after) throw new StaleVersionError(getUniverseComputed(projectId, id));
-		recordAudit({ projectId, userId, action: 'universe.update', entity: 'universe', entityId: id, before: universeShape(before), after: universeShape(after) });
+		recordAudit({
+			projectId,
+			userId,
+			action: 'universe.update',
+			entity: 'universe',
+			entityId: id,
+			before: universeShape(before),
+			after: universeShape(after)
+		});
 	});
 	return getUniverseComputed(projectId, id)!;
 }
@@ -91,7 +119,14 @@ export function deleteUniverse(projectId: number, userId: string, id: number, de
 		}
 		for (const f of users) detachFixture(projectId, userId, f, `universe ${before.number} deleted`);
 		db().delete(universes).where(eq(universes.id, id)).run();
-		recordAudit({ projectId, userId, action: 'universe.delete', entity: 'universe', entityId: id, before: universeShape(before) });
+		recordAudit({
+			projectId,
+			userId,
+			action: 'universe.delete',
+			entity: 'universe',
+			entityId: id,
+			before: universeShape(before)
+		});
 	});
 }
 
@@ -108,7 +143,15 @@ export function detachFixture(projectId: number, userId: string, f: typeof fixtu
 		action: 'fixture.detach',
 		entity: 'fixture',
 		entityId: f.id,
-		before: { controlKind: f.controlKind, universeId: f.universeId, address: f.address, addressMap: f.addressMap, receiverId: f.receiverId, rcChannels: f.rcChannels, leaderId: f.leaderId },
+		before: {
+			controlKind: f.controlKind,
+			universeId: f.universeId,
+			address: f.address,
+			addressMap: f.addressMap,
+			receiverId: f.receiverId,
+			rcChannels: f.rcChannels,
+			leaderId: f.leaderId
+		},
 		after: { controlKind: 'manual', reason: why }
 	});
 }

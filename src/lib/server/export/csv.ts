@@ -7,8 +7,23 @@ import { loadPatch } from '../db/patch';
 // edited and imported back.
 
 export const CSV_COLUMNS = [
-	'number', 'label', 'maker', 'model', 'mode', 'universe', 'address', 'position', 'group', 'notes',
-	'control', 'range', 'receiver', 'rc channels', 'slots', 'link group', 'state'
+	'number',
+	'label',
+	'maker',
+	'model',
+	'mode',
+	'universe',
+	'address',
+	'position',
+	'group',
+	'notes',
+	'control',
+	'range',
+	'receiver',
+	'rc channels',
+	'slots',
+	'link group',
+	'state'
 ] as const;
 
 // OWASP "CSV injection": a text cell starting with = + - @ tab or CR gets a leading quote.
@@ -37,7 +52,9 @@ export function exportPatchCsv(projectId: number): string {
 		if (c.kind === 'dmx') {
 			universe = universes.get(c.universeId ?? -1) ?? '';
 			address = c.address;
-			range = f.slots.length ? `${universe}.${formatSlots(f.slots.flatMap((s) => Array.from({ length: s.end - s.start + 1 }, (_, i) => s.start + i)))}` : '';
+			range = f.slots.length
+				? `${universe}.${formatSlots(f.slots.flatMap((s) => Array.from({ length: s.end - s.start + 1 }, (_, i) => s.start + i)))}`
+				: '';
 		} else if (c.kind === 'dmx-map') {
 			// no single start address: the universe and address columns stay empty (an import then keeps the map)
 			// and the range column carries each parameter's universe.address
@@ -60,8 +77,23 @@ export function exportPatchCsv(projectId: number): string {
 			control = `follow ${byId.get(c.leaderId)?.number ?? '?'}`;
 		}
 		return [
-			f.number, f.label, tm?.type.maker ?? '', tm?.type.model ?? '', tm?.mode.name ?? '', universe, address,
-			f.position, f.group, f.notes, control, range, receiver, rc, f.footprint ?? '', f.linkGroup ?? '', f.state
+			f.number,
+			f.label,
+			tm?.type.maker ?? '',
+			tm?.type.model ?? '',
+			tm?.mode.name ?? '',
+			universe,
+			address,
+			f.position,
+			f.group,
+			f.notes,
+			control,
+			range,
+			receiver,
+			rc,
+			f.footprint ?? '',
+			f.linkGroup ?? '',
+			f.state
 		];
 	});
 	return toCsv(rows);

@@ -20,7 +20,13 @@ export function exportProject(projectId: number) {
 			notes: p.project.notes,
 			artnetOffset: p.project.artnetOffset
 		},
-		universes: p.universes.map((u) => ({ id: u.id, number: u.number, name: u.name, transport: u.transport, notes: u.notes })),
+		universes: p.universes.map((u) => ({
+			id: u.id,
+			number: u.number,
+			name: u.name,
+			transport: u.transport,
+			notes: u.notes
+		})),
 		types: p.types.map((t) => ({
 			id: t.id,
 			maker: t.maker,
@@ -28,7 +34,13 @@ export function exportProject(projectId: number) {
 			notes: t.notes,
 			modes: t.modes.map((m) => ({ id: m.id, name: m.name, channels: m.channels }))
 		})),
-		receivers: p.receivers.map((r) => ({ id: r.id, name: r.name, protocol: r.protocol, transmitterNotes: r.transmitterNotes, labels: r.labels })),
+		receivers: p.receivers.map((r) => ({
+			id: r.id,
+			name: r.name,
+			protocol: r.protocol,
+			transmitterNotes: r.transmitterNotes,
+			labels: r.labels
+		})),
 		fixtures: p.fixtures.map((f) => ({
 			id: f.id,
 			number: f.number,
@@ -52,6 +64,11 @@ export type ProjectExport = ReturnType<typeof exportProject>;
 
 /** A file name safe in a Content-Disposition header: letters, digits and dashes only. */
 export function downloadName(projectName: string, what: string, ext: string): string {
-	const slug = projectName.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'project';
+	const slug =
+		projectName
+			.toLowerCase()
+			.replace(/[^a-z0-9]+/g, '-')
+			.replace(/^-|-$/g, '')
+			.slice(0, 60) || 'project';
 	return `${slug}-${what}.${ext}`;
 }

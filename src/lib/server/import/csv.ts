@@ -13,16 +13,41 @@ import type { ImportIssue } from './gdtf';
 // file is written in one transaction or not at all; the preview runs the same
 // writes and rolls them back, so what it shows is exactly what apply does.
 
-export type CsvField = 'number' | 'label' | 'maker' | 'model' | 'mode' | 'universe' | 'address' | 'patch' | 'position' | 'group' | 'notes';
+export type CsvField =
+	'number' | 'label' | 'maker' | 'model' | 'mode' | 'universe' | 'address' | 'patch' | 'position' | 'group' | 'notes';
 
 const SYNONYMS: Record<CsvField, string[]> = {
-	number: ['number', 'no', 'num', 'fixture', 'fixturenumber', 'fixtureno', 'fixtureid', 'unit', 'unitnumber', 'unitno', 'id'],
+	number: [
+		'number',
+		'no',
+		'num',
+		'fixture',
+		'fixturenumber',
+		'fixtureno',
+		'fixtureid',
+		'unit',
+		'unitnumber',
+		'unitno',
+		'id'
+	],
 	label: ['label', 'name', 'fixturelabel', 'fixturename', 'purpose'],
 	maker: ['maker', 'manufacturer', 'make', 'brand', 'mfr', 'vendor'],
 	model: ['model', 'type', 'fixturetype', 'fixturemodel', 'product'],
 	mode: ['mode', 'dmxmode', 'personality', 'profile'],
 	universe: ['universe', 'univ', 'uni', 'u', 'line', 'dmxuniverse'],
-	address: ['address', 'addr', 'ch', 'chan', 'start', 'startaddress', 'startchannel', 'dmx', 'dmxaddress', 'dmxstart', 'dmxch'],
+	address: [
+		'address',
+		'addr',
+		'ch',
+		'chan',
+		'start',
+		'startaddress',
+		'startchannel',
+		'dmx',
+		'dmxaddress',
+		'dmxstart',
+		'dmxch'
+	],
 	patch: ['patch', 'universeaddress', 'univaddress', 'univaddr', 'uaddr', 'uaddress', 'dmxpatch'],
 	position: ['position', 'pos', 'location', 'hangingposition', 'rigposition'],
 	group: ['group', 'groupname'],
@@ -33,11 +58,15 @@ const SYNONYMS: Record<CsvField, string[]> = {
 export const MAX_CSV_ROWS = 5000;
 
 export function normaliseHeader(h: string): string {
-	return h.toLowerCase().replace(/#/g, 'number').replace(/[^a-z0-9]/g, '');
+	return h
+		.toLowerCase()
+		.replace(/#/g, 'number')
+		.replace(/[^a-z0-9]/g, '');
 }
 
 const BY_NAME = new Map<string, CsvField>();
-for (const [field, names] of Object.entries(SYNONYMS) as [CsvField, string[]][]) for (const n of names) BY_NAME.set(n, field);
+for (const [field, names] of Object.entries(SYNONYMS) as [CsvField, string[]][])
+	for (const n of names) BY_NAME.set(n, field);
 
 export function matchHeaders(header: string[]): { columns: Partial<Record<CsvField, number>>; ignored: string[] } {
 	const columns: Partial<Record<CsvField, number>> = {};
@@ -80,21 +109,38 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	const records = parsed.data;
 	const issues: ImportIssue[] = [];
 	if (records.length === 0 || records[0].every((c) => c.trim() === '')) {
-		throw new ApiError(422, 'The CSV has no header row.', { code: 'invalid-file', issues: [{ row: 1, field: 'header', message: 'Empty.' }] });
+		throw new ApiError(422, 'The CSV has no header row.', {
+			code: 'invalid-file',
+			issues: [{ row: 1, field: 'header', message: 'Empty.' }]
+		});
 	}
-	const filled = records.length - 1 > MAX_CSV_ROWS ? records.slice(1).filter((r) => r.some((c) => c.trim() !== '')).length : 0;
+	const filled =
+		records.length - 1 > MAX_CSV_ROWS ? records.slice(1).filter((r) => r.some((c) => c.trim() !== '')).length : 0;
 	if (filled > MAX_CSV_ROWS) {
-		throw new ApiError(422, `The CSV has ${filled} rows; import at most ${MAX_CSV_ROWS} at a time.`, { code: 'invalid-file', issues: [{ row: MAX_CSV_ROWS + 2, field: 'row', message: 'Too many rows.' }] });
+		throw new ApiError(422, `The CSV has ${filled} rows; import at most ${MAX_CSV_ROWS} at a time.`, {
+			code: 'invalid-file',
+			issues: [{ row: MAX_CSV_ROWS + 2, field: 'row', message: 'Too many rows.' }]
+		});
 	}
 	const { columns, ignored } = matchHeaders(records[0]);
 	const missing: string[] = [];
 	if (columns.number === undefined) missing.push('number');
-	if (columns.universe === undefined && columns.address === undefined && columns.patch === undefined) missing.push('universe and address');
+	if (columns.universe === undefined && columns.address === undefined && columns.patch === undefined)
+		missing.push('universe and address');
 	if (missing.length) {
-		throw new ApiError(422, `The CSV has no ${missing.join(' or ')} column (found: ${records[0].map((h) => h.trim()).filter(Boolean).join(', ') || 'nothing'}).`, {
-			code: 'invalid-file',
-			issues: missing.map((m) => ({ row: 1, field: m, message: 'Column not found.' }))
-		});
+		throw new ApiError(
+			422,
+			`The CSV has no ${missing.join(' or ')} column (found: ${
+				records[0]
+					.map((h) => h.trim())
+					.filter(Boolean)
+					.join(', ') || 'nothing'
+			}).`,
+			{
+				code: 'invalid-file',
+				issues: missing.map((m) => ({ row: 1, field: m, message: 'Column not found.' }))
+			}
+		);
 	}
 	const rows: CsvRow[] = [];
 	const seen = new Map<number, number>();
@@ -104,7 +150,11 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 		const get = (f: CsvField) => (columns[f] === undefined ? '' : cell(rec[columns[f]]));
 		const bad = (field: string, message: string) => issues.push({ row, field, message });
 		const num = int(get('number'));
-		if (num === null || num < 1) return bad('number', get('number') === '' ? 'A fixture number is needed.' : `"${get('number')}" is not a fixture number.`);
+		if (num === null || num < 1)
+			return bad(
+				'number',
+				get('number') === '' ? 'A fixture number is needed.' : `"${get('number')}" is not a fixture number.`
+			);
 		if (seen.has(num)) return bad('number', `Fixture ${num} is also on row ${seen.get(num)}.`);
 		seen.set(num, row);
 		const out: CsvRow = { row, number: num };
@@ -117,16 +167,26 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 		// "2.101" (also 2/101, 2:101) in the address or a combined column
 		const combined = /^(\d+)\s*[./:]\s*(\d+)$/.exec(get('patch') || aText);
 		if (combined) {
-			if (uText !== '' && uText !== combined[1]) return bad('universe', `The universe column says ${uText} but "${combined[0]}" says ${combined[1]}.`);
+			if (uText !== '' && uText !== combined[1])
+				return bad('universe', `The universe column says ${uText} but "${combined[0]}" says ${combined[1]}.`);
 			uText = combined[1];
 			aText = combined[2];
 		} else if (get('patch') !== '') return bad('address', `"${get('patch')}" is not universe.address like 2.101.`);
 		if (uText !== '' || aText !== '') {
 			const u = int(uText);
 			const a = int(aText);
-			if (uText === '' && columns.universe === undefined && columns.patch === undefined) return bad('address', `Write the address as universe.address (like 1.${aText}): the file has no universe column.`);
-			if (u === null) return bad('universe', uText === '' ? 'An address without a universe.' : `"${uText}" is not a universe number.`);
-			if (a === null) return bad('address', aText === '' ? 'A universe without an address.' : `"${aText}" is not an address.`);
+			if (uText === '' && columns.universe === undefined && columns.patch === undefined)
+				return bad(
+					'address',
+					`Write the address as universe.address (like 1.${aText}): the file has no universe column.`
+				);
+			if (u === null)
+				return bad(
+					'universe',
+					uText === '' ? 'An address without a universe.' : `"${uText}" is not a universe number.`
+				);
+			if (a === null)
+				return bad('address', aText === '' ? 'A universe without an address.' : `"${aText}" is not an address.`);
 			out.universe = u;
 			out.address = a;
 		}
@@ -146,7 +206,13 @@ export interface CsvSummary {
 	conflicts: { kind: string; severity: string; message: string }[];
 }
 
-const FIELD_OF: Record<string, string> = { universeId: 'universe', address: 'address', addresses: 'address', typeId: 'model', modeId: 'mode' };
+const FIELD_OF: Record<string, string> = {
+	universeId: 'universe',
+	address: 'address',
+	addresses: 'address',
+	typeId: 'model',
+	modeId: 'mode'
+};
 
 function fieldOf(path: (string | number)[]): string {
 	const names = path.filter((p): p is string => typeof p === 'string' && p !== 'control' && p !== 'fixtures');
@@ -176,17 +242,34 @@ function patchText(u: number | undefined, a: number | undefined): string {
 /** Plans and (with `apply`) writes the CSV rows; any bad row refuses the whole file with 422 naming every bad row. */
 export function importCsv(projectId: number, userId: string, text: string, apply: boolean): CsvSummary {
 	const { rows, issues, ignored } = parseCsvPatch(text);
-	if (rows.length === 0 && issues.length === 0) throw new ApiError(422, 'The CSV has a header but no fixture rows.', { code: 'invalid-file', issues: [{ row: 2, field: 'row', message: 'No rows.' }] });
+	if (rows.length === 0 && issues.length === 0)
+		throw new ApiError(422, 'The CSV has a header but no fixture rows.', {
+			code: 'invalid-file',
+			issues: [{ row: 2, field: 'row', message: 'No rows.' }]
+		});
 	try {
 		return db().transaction(() => {
 			const types = listTypes(projectId);
 			const byName = new Map(types.map((t) => [`${t.maker.toLowerCase()}\u0000${t.model.toLowerCase()}`, t]));
 			const existing = new Map(listFixtures(projectId).map((f) => [f.number, f]));
 			const universeIds = new Map(listUniverses(projectId).map((u) => [u.number, u.id]));
-			const summary: CsvSummary = { kind: 'csv', applied: apply, rows: rows.length + issues.length, ignoredColumns: ignored, universes: [], create: [], update: [], conflicts: [] };
+			const summary: CsvSummary = {
+				kind: 'csv',
+				applied: apply,
+				rows: rows.length + issues.length,
+				ignoredColumns: ignored,
+				universes: [],
+				create: [],
+				update: [],
+				conflicts: []
+			};
 			for (const r of rows) {
 				if (r.universe === undefined || universeIds.has(r.universe)) continue;
-				const u = universeCreate.safeParse({ number: r.universe, name: `Universe ${r.universe}`, transport: 'dmx-wired' });
+				const u = universeCreate.safeParse({
+					number: r.universe,
+					name: `Universe ${r.universe}`,
+					transport: 'dmx-wired'
+				});
 				if (!u.success) {
 					issues.push({ row: r.row, field: 'universe', message: u.error.issues[0].message });
 					continue;
@@ -204,7 +287,10 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 				let modeId: number | undefined;
 				if (r.maker !== undefined || r.model !== undefined || r.mode !== undefined || !before) {
 					if (!r.maker || !r.model) {
-						bad(r.maker ? 'model' : 'maker', before ? 'To change the type give maker, model and mode.' : 'A new fixture needs a maker and a model.');
+						bad(
+							r.maker ? 'model' : 'maker',
+							before ? 'To change the type give maker, model and mode.' : 'A new fixture needs a maker and a model.'
+						);
 						continue;
 					}
 					const type = byName.get(`${r.maker.toLowerCase()}\u0000${r.model.toLowerCase()}`);
@@ -212,15 +298,27 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 						bad('model', `No fixture type "${r.maker} ${r.model}" in this project; add or import it first.`);
 						continue;
 					}
-					const mode = r.mode ? type.modes.find((m) => m.name.toLowerCase() === r.mode!.toLowerCase()) : type.modes.length === 1 ? type.modes[0] : undefined;
+					const mode = r.mode
+						? type.modes.find((m) => m.name.toLowerCase() === r.mode!.toLowerCase())
+						: type.modes.length === 1
+							? type.modes[0]
+							: undefined;
 					if (!mode) {
-						bad('mode', r.mode ? `${type.maker} ${type.model} has no mode "${r.mode}" (modes: ${type.modes.map((m) => m.name).join(', ')}).` : `${type.maker} ${type.model} has several modes; name one.`);
+						bad(
+							'mode',
+							r.mode
+								? `${type.maker} ${type.model} has no mode "${r.mode}" (modes: ${type.modes.map((m) => m.name).join(', ')}).`
+								: `${type.maker} ${type.model} has several modes; name one.`
+						);
 						continue;
 					}
 					typeId = type.id;
 					modeId = mode.id;
 				}
-				const control: ControlInput | undefined = r.universe !== undefined ? { kind: 'dmx', universeId: universeIds.get(r.universe)!, address: r.address! } : undefined;
+				const control: ControlInput | undefined =
+					r.universe !== undefined
+						? { kind: 'dmx', universeId: universeIds.get(r.universe)!, address: r.address! }
+						: undefined;
 				if (!before) {
 					const parsed = fixtureCreate.safeParse({
 						number: r.number,
@@ -233,12 +331,20 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 						control: control ?? { kind: 'manual' }
 					});
 					if (!parsed.success) {
-						for (const i of parsed.error.issues) bad(fieldOf(i.path.filter((p): p is string | number => typeof p !== 'symbol')), i.message);
+						for (const i of parsed.error.issues)
+							bad(fieldOf(i.path.filter((p): p is string | number => typeof p !== 'symbol')), i.message);
 						continue;
 					}
 					creates.push({ row: r, input: parsed.data });
 					const t = types.find((x) => x.id === typeId)!;
-					summary.create.push({ row: r.row, number: r.number, label: r.label ?? '', type: `${t.maker} ${t.model}`, mode: t.modes.find((m) => m.id === modeId)!.name, patch: patchText(r.universe, r.address) });
+					summary.create.push({
+						row: r.row,
+						number: r.number,
+						label: r.label ?? '',
+						type: `${t.maker} ${t.model}`,
+						mode: t.modes.find((m) => m.id === modeId)!.name,
+						patch: patchText(r.universe, r.address)
+					});
 				} else {
 					const change: FixtureChange = { id: before.id, version: before.version };
 					const what: string[] = [];
@@ -264,20 +370,34 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 					}
 					if (what.length === 0) continue;
 					changes.push({ row: r, change, what });
-					summary.update.push({ row: r.row, id: before.id, number: r.number, label: change.label ?? before.label, changes: what });
+					summary.update.push({
+						row: r.row,
+						id: before.id,
+						number: r.number,
+						label: change.label ?? before.label,
+						changes: what
+					});
 				}
 			}
 			// every row is checked even when earlier ones failed, so the answer names all bad rows at once
 			if (creates.length) {
 				try {
-					createFixtures(projectId, userId, creates.map((c) => c.input));
+					createFixtures(
+						projectId,
+						userId,
+						creates.map((c) => c.input)
+					);
 				} catch (e) {
 					issues.push(...issuesOf(e, (i) => creates[i]?.row.row ?? creates[0].row.row));
 				}
 			}
 			if (changes.length) {
 				try {
-					updateFixtures(projectId, userId, changes.map((c) => c.change));
+					updateFixtures(
+						projectId,
+						userId,
+						changes.map((c) => c.change)
+					);
 				} catch (e) {
 					issues.push(...issuesOf(e, (i) => changes[i]?.row.row ?? changes[0].row.row));
 				}
@@ -285,9 +405,17 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 			if (issues.length > 0) {
 				issues.sort((a, b) => (a.row ?? 0) - (b.row ?? 0));
 				const rowsBad = new Set(issues.map((i) => i.row)).size;
-				throw new ApiError(422, `${rowsBad === 1 ? `Row ${issues[0].row} has a problem` : `${rowsBad} rows have problems`}; nothing was written.`, { code: 'invalid-rows', issues });
+				throw new ApiError(
+					422,
+					`${rowsBad === 1 ? `Row ${issues[0].row} has a problem` : `${rowsBad} rows have problems`}; nothing was written.`,
+					{ code: 'invalid-rows', issues }
+				);
 			}
-			summary.conflicts = loadPatch(projectId).conflicts.map((c) => ({ kind: c.kind, severity: c.severity, message: c.message }));
+			summary.conflicts = loadPatch(projectId).conflicts.map((c) => ({
+				kind: c.kind,
+				severity: c.severity,
+				message: c.message
+			}));
 			if (!apply) throw new Rollback(summary);
 			return summary;
 		});

@@ -87,7 +87,10 @@ function attr(n: Node | undefined, key: string): string | undefined {
 }
 
 function refuse(message: string, issues: ImportIssue[] = []): never {
-	throw new ApiError(422, message, { code: 'invalid-file', issues: issues.length ? issues : [{ row: null, field: 'file', message }] });
+	throw new ApiError(422, message, {
+		code: 'invalid-file',
+		issues: issues.length ? issues : [{ row: null, field: 'file', message }]
+	});
 }
 
 /** Reads description.xml out of a .gdtf archive (every entry name checked, inflation capped). */
@@ -112,7 +115,9 @@ function channelOf(ch: Node, modeName: string, warnings: string[]): (ChannelInpu
 	const logical = list(ch, 'LogicalChannel')[0];
 	const attribute = attr(logical, 'Attribute')?.split('.').pop()?.trim() || attr(ch, 'Name') || 'control';
 	if (offsets.length > 3) {
-		warnings.push(`Mode "${modeName}": ${attribute} uses ${offsets.length} bytes; only 8, 16 and 24 bits are kept, so it was left out.`);
+		warnings.push(
+			`Mode "${modeName}": ${attribute} uses ${offsets.length} bytes; only 8, 16 and 24 bits are kept, so it was left out.`
+		);
 		return null;
 	}
 	const nums = offsets.map(Number);
@@ -127,12 +132,23 @@ function channelOf(ch: Node, modeName: string, warnings: string[]): (ChannelInpu
 	const initial = functions.find((f) => initialName !== undefined && attr(f, 'Name') === initialName) ?? functions[0];
 	const def = parseDmxValue(attr(ch, 'Default'), bytes) ?? parseDmxValue(attr(initial, 'Default'), bytes) ?? 0;
 	const parameter = parameterFor(attribute);
-	const out: ChannelInput & { attribute: string } = { offset: nums.length ? nums[0] : null, parameter, bits, default: def, attribute };
+	const out: ChannelInput & { attribute: string } = {
+		offset: nums.length ? nums[0] : null,
+		parameter,
+		bits,
+		default: def,
+		attribute
+	};
 	if (parameter === 'cct' || parameter === 'hue') {
 		const ranged = functions.find((f) => {
 			const a = Number(attr(f, 'PhysicalFrom'));
 			const b = Number(attr(f, 'PhysicalTo'));
-			return Number.isFinite(a) && Number.isFinite(b) && a !== b && (parameter === 'hue' || (Math.min(a, b) >= 1000 && Math.max(a, b) <= 20000));
+			return (
+				Number.isFinite(a) &&
+				Number.isFinite(b) &&
+				a !== b &&
+				(parameter === 'hue' || (Math.min(a, b) >= 1000 && Math.max(a, b) <= 20000))
+			);
 		});
 		if (ranged) {
 			const a = Number(attr(ranged, 'PhysicalFrom'));
@@ -143,7 +159,9 @@ function channelOf(ch: Node, modeName: string, warnings: string[]): (ChannelInpu
 		}
 	}
 	if (nums.length > 1 && nums.some((n, i) => i > 0 && n !== nums[i - 1] + 1)) {
-		warnings.push(`Mode "${modeName}": ${attribute} has non-adjacent bytes (${nums.join(',')}); kept as ${bits}-bit from slot ${nums[0]}.`);
+		warnings.push(
+			`Mode "${modeName}": ${attribute} has non-adjacent bytes (${nums.join(',')}); kept as ${bits}-bit from slot ${nums[0]}.`
+		);
 	}
 	return out;
 }
@@ -172,7 +190,8 @@ export function parseGdtfXml(xml: string): GdtfResult {
 	if (!ft) refuse('description.xml has no GDTF → FixtureType element.');
 	const warnings: string[] = [];
 	const dataVersion = attr(root, 'DataVersion') ?? null;
-	if (dataVersion && !/^1\.[0-2]$/.test(dataVersion)) warnings.push(`GDTF DataVersion ${dataVersion}: read as 1.2; check the result.`);
+	if (dataVersion && !/^1\.[0-2]$/.test(dataVersion))
+		warnings.push(`GDTF DataVersion ${dataVersion}: read as 1.2; check the result.`);
 	const modes: ModeInput[] = list(child(ft, 'DMXModes'), 'DMXMode').map((m, i) => {
 		const name = attr(m, 'Name')?.trim() || `Mode ${i + 1}`;
 		const channels: ChannelInput[] = [];
@@ -197,12 +216,18 @@ export function parseGdtfXml(xml: string): GdtfResult {
 	const body = {
 		maker: attr(ft, 'Manufacturer')?.trim() ?? '',
 		model: attr(ft, 'LongName')?.trim() || name,
-		notes: [description, attr(ft, 'ShortName') ? `Short name: ${attr(ft, 'ShortName')}` : '', 'Imported from GDTF.'].filter(Boolean).join('\n'),
+		notes: [description, attr(ft, 'ShortName') ? `Short name: ${attr(ft, 'ShortName')}` : '', 'Imported from GDTF.']
+			.filter(Boolean)
+			.join('\n'),
 		modes
 	};
 	const parsed = typeCreate.safeParse(body);
 	if (!parsed.success) {
-		const issues = parsed.error.issues.map((i) => ({ row: null, field: i.path.map(String).join('.'), message: describePath(body, i.path) + i.message }));
+		const issues = parsed.error.issues.map((i) => ({
+			row: null,
+			field: i.path.map(String).join('.'),
+			message: describePath(body, i.path) + i.message
+		}));
 		refuse(issues.length === 1 ? issues[0].message : `The fixture type has ${issues.length} problems.`, issues);
 	}
 	return { type: parsed.data, dataVersion, warnings };

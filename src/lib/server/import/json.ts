@@ -24,7 +24,10 @@ const envelope = z.looseObject({
 	version: z.literal(PROJECT_FORMAT_VERSION, { message: `Only version ${PROJECT_FORMAT_VERSION} files are read.` }),
 	project: z.looseObject({}),
 	universes: z.array(withId).max(5000).default([]),
-	types: z.array(withId.extend({ modes: z.array(withId).max(64) })).max(5000).default([]),
+	types: z
+		.array(withId.extend({ modes: z.array(withId).max(64) }))
+		.max(5000)
+		.default([]),
 	receivers: z.array(withId).max(1000).default([]),
 	fixtures: z.array(withId).max(20000).default([])
 });
@@ -45,7 +48,8 @@ export function importProjectJson(userId: string, text: string): Project {
 	}
 	const issues: ImportIssue[] = [];
 	const add = (prefix: (string | number)[], err: z.ZodError) => {
-		for (const i of err.issues) issues.push({ row: null, field: [...prefix, ...i.path].map(String).join('.'), message: i.message });
+		for (const i of err.issues)
+			issues.push({ row: null, field: [...prefix, ...i.path].map(String).join('.'), message: i.message });
 	};
 	const env = envelope.safeParse(raw);
 	if (!env.success) {
@@ -75,7 +79,12 @@ export function importProjectJson(userId: string, text: string): Project {
 		if (!r.success) add(['fixtures', i], r.error);
 		return { id: f.id, index: i, data: r.data };
 	});
-	if (issues.length) throw new ApiError(422, `The file has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}; nothing was created.`, { code: 'invalid-file', issues });
+	if (issues.length)
+		throw new ApiError(
+			422,
+			`The file has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}; nothing was created.`,
+			{ code: 'invalid-file', issues }
+		);
 
 	return db().transaction(() => {
 		const created = createProject(userId, project.data!);
@@ -98,7 +107,12 @@ export function importProjectJson(userId: string, text: string): Project {
 			const d = f.data!;
 			const need = (map: Map<number, number>, id: number, field: string) => {
 				const to = map.get(id);
-				if (to === undefined) missing.push({ row: null, field: `fixtures.${f.index}.${field}`, message: `Refers to id ${id}, which the file does not contain.` });
+				if (to === undefined)
+					missing.push({
+						row: null,
+						field: `fixtures.${f.index}.${field}`,
+						message: `Refers to id ${id}, which the file does not contain.`
+					});
 				return to ?? id;
 			};
 			const c = d.control;
@@ -113,10 +127,17 @@ export function importProjectJson(userId: string, text: string): Project {
 			return { ...d, typeId: need(typeMap, d.typeId, 'typeId'), modeId: need(modeMap, d.modeId, 'modeId'), control };
 		};
 		// leaders first, so followers can point at their new ids
-		for (const batch of [fixtures.filter((f) => f.data!.control.kind !== 'follow'), fixtures.filter((f) => f.data!.control.kind === 'follow')]) {
+		for (const batch of [
+			fixtures.filter((f) => f.data!.control.kind !== 'follow'),
+			fixtures.filter((f) => f.data!.control.kind === 'follow')
+		]) {
 			if (batch.length === 0) continue;
 			const inputs = batch.map(remap);
-			if (missing.length) throw new ApiError(422, 'The file refers to rows it does not contain; nothing was created.', { code: 'invalid-file', issues: missing });
+			if (missing.length)
+				throw new ApiError(422, 'The file refers to rows it does not contain; nothing was created.', {
+					code: 'invalid-file',
+					issues: missing
+				});
 			let made;
 			try {
 				made = createFixtures(pid, userId, inputs);

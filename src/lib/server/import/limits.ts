@@ -17,7 +17,8 @@ export type Sniffed = 'zip' | 'json' | 'text' | 'binary';
 
 /** Decides what a file is from its bytes. */
 export function sniff(bytes: Uint8Array): Sniffed {
-	if (bytes.length >= 4 && bytes[0] === 0x50 && bytes[1] === 0x4b && bytes[2] === 0x03 && bytes[3] === 0x04) return 'zip';
+	if (bytes.length >= 4 && bytes[0] === 0x50 && bytes[1] === 0x4b && bytes[2] === 0x03 && bytes[3] === 0x04)
+		return 'zip';
 	let start = 0;
 	if (bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) start = 3;
 	const head = bytes.subarray(start, start + 4096);
@@ -26,7 +27,9 @@ export function sniff(bytes: Uint8Array): Sniffed {
 		if (b === 0 || (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c)) return 'binary';
 	}
 	try {
-		new TextDecoder('utf-8', { fatal: true }).decode(head.length === bytes.length - start ? head : trimPartialUtf8(head));
+		new TextDecoder('utf-8', { fatal: true }).decode(
+			head.length === bytes.length - start ? head : trimPartialUtf8(head)
+		);
 	} catch {
 		return 'binary';
 	}
@@ -77,7 +80,11 @@ export interface UnzipLimits {
  * counting every inflated byte, so a zip bomb stops at the budget instead of
  * filling memory. Every entry name is checked, wanted or not.
  */
-export function safeUnzip(bytes: Uint8Array, want: (name: string) => boolean, limits: UnzipLimits = {}): Map<string, Uint8Array> {
+export function safeUnzip(
+	bytes: Uint8Array,
+	want: (name: string) => boolean,
+	limits: UnzipLimits = {}
+): Map<string, Uint8Array> {
 	const maxInflated = limits.maxInflated ?? MAX_INFLATED_BYTES;
 	const maxEntries = limits.maxEntries ?? MAX_ZIP_ENTRIES;
 	const out = new Map<string, Uint8Array>();
@@ -90,18 +97,32 @@ export function safeUnzip(bytes: Uint8Array, want: (name: string) => boolean, li
 	const unzip = new Unzip((file) => {
 		if (failure) return;
 		entries++;
-		if (entries > maxEntries) return fail(new ApiError(400, `The archive has more than ${maxEntries} entries.`, { code: 'zip-entries' }));
-		if (unsafeEntryName(file.name)) return fail(new ApiError(400, `The archive holds an unsafe entry name: "${file.name.slice(0, 120)}".`, { code: 'zip-path' }));
+		if (entries > maxEntries)
+			return fail(new ApiError(400, `The archive has more than ${maxEntries} entries.`, { code: 'zip-entries' }));
+		if (unsafeEntryName(file.name))
+			return fail(
+				new ApiError(400, `The archive holds an unsafe entry name: "${file.name.slice(0, 120)}".`, { code: 'zip-path' })
+			);
 		if (!want(file.name)) return;
-		if (file.compression !== 0 && file.compression !== 8) return fail(new ApiError(400, `"${file.name}" uses a zip compression other than deflate.`, { code: 'zip-method' }));
+		if (file.compression !== 0 && file.compression !== 8)
+			return fail(
+				new ApiError(400, `"${file.name}" uses a zip compression other than deflate.`, { code: 'zip-method' })
+			);
 		const chunks: Uint8Array[] = [];
 		file.ondata = (err, data, final) => {
 			if (failure) return;
-			if (err) return fail(new ApiError(400, `"${file.name}" could not be inflated: the archive is damaged.`, { code: 'zip-damaged' }));
+			if (err)
+				return fail(
+					new ApiError(400, `"${file.name}" could not be inflated: the archive is damaged.`, { code: 'zip-damaged' })
+				);
 			inflated += data.length;
 			if (inflated > maxInflated) {
 				file.terminate();
-				return fail(new ApiError(413, `The archive inflates past ${Math.round(maxInflated / 1024 / 1024)} MB; refused.`, { code: 'zip-too-large' }));
+				return fail(
+					new ApiError(413, `The archive inflates past ${Math.round(maxInflated / 1024 / 1024)} MB; refused.`, {
+						code: 'zip-too-large'
+					})
+				);
 			}
 			chunks.push(data);
 			if (final) out.set(file.name, concat(chunks));

@@ -67,7 +67,15 @@ export function invitationMail(
 
 export function signoffMail(
 	to: string,
-	input: { projectName: string; revision: number; note: string; decision: 'approved' | 'changes-requested'; name: string; comment: string; url: string }
+	input: {
+		projectName: string;
+		revision: number;
+		note: string;
+		decision: 'approved' | 'changes-requested';
+		name: string;
+		comment: string;
+		url: string;
+	}
 ): OutgoingMail {
 	const verdict = input.decision === 'approved' ? 'approved' : 'asked for changes to';
 	return composeMail({
@@ -93,7 +101,9 @@ export function reviewLinkMail(
 		lines: [
 			`${input.sentBy} asks you to review ${what} of the lighting patch for "${input.projectName}".`,
 			'Open the link on your phone or computer; no account is needed. You can approve it or ask for changes.',
-			input.expiresAt ? `The link works until ${input.expiresAt.toISOString().slice(0, 10)}.` : 'The link works until it is revoked.',
+			input.expiresAt
+				? `The link works until ${input.expiresAt.toISOString().slice(0, 10)}.`
+				: 'The link works until it is revoked.',
 			'Anyone with the link can read this revision, so please do not forward it.'
 		],
 		action: { label: 'Review the patch', url: input.url }

@@ -325,7 +325,13 @@ export class Table {
 		this.columns.forEach((c, i) => {
 			const text = row.cells[c.key] ?? '';
 			const w = this.widths[i] - 2 * this.style.padding - (c.key === this.indentKey ? (row.indent ?? 0) : 0);
-			lines = Math.max(lines, Math.min(this.style.maxLines, lineCount((s) => doc.widthOfString(s), text, w)));
+			lines = Math.max(
+				lines,
+				Math.min(
+					this.style.maxLines,
+					lineCount((s) => doc.widthOfString(s), text, w)
+				)
+			);
 		});
 		return lines * this.lineHeight + 2 * this.style.padding;
 	}
@@ -368,7 +374,11 @@ export class Table {
 			});
 			x += this.widths[i];
 		});
-		doc.moveTo(this.sheet.left, y + h).lineTo(this.sheet.right, y + h).lineWidth(0.8).stroke('#000');
+		doc
+			.moveTo(this.sheet.left, y + h)
+			.lineTo(this.sheet.right, y + h)
+			.lineWidth(0.8)
+			.stroke('#000');
 		this.cursor.y = y + h;
 	}
 
@@ -386,7 +396,10 @@ export class Table {
 			doc.rect(this.sheet.left - 7, y + 1, 4, h - 2).fill('#000');
 			doc.restore();
 		}
-		doc.font(row.bold ? FONT_BOLD : FONT).fontSize(this.style.fontSize).fillColor('#000');
+		doc
+			.font(row.bold ? FONT_BOLD : FONT)
+			.fontSize(this.style.fontSize)
+			.fillColor('#000');
 		let x = this.sheet.left;
 		this.columns.forEach((c, i) => {
 			const indent = c.key === this.indentKey ? (row.indent ?? 0) : 0;
@@ -403,7 +416,11 @@ export class Table {
 			}
 			x += this.widths[i];
 		});
-		doc.moveTo(this.sheet.left, y + h).lineTo(this.sheet.right, y + h).lineWidth(0.3).stroke('#888');
+		doc
+			.moveTo(this.sheet.left, y + h)
+			.lineTo(this.sheet.right, y + h)
+			.lineWidth(0.3)
+			.stroke('#888');
 		this.cursor.y = y + h;
 	}
 }
@@ -415,14 +432,22 @@ export function heading(sheet: SheetDoc, cursor: Cursor, text: string, size = 11
 		cursor.y = sheet.top;
 	}
 	sheet.doc.font(FONT_BOLD).fontSize(size).fillColor('#000');
-	sheet.doc.text(text, sheet.left, cursor.y, { width: sheet.width, lineBreak: false, height: size * 1.4, ellipsis: true });
+	sheet.doc.text(text, sheet.left, cursor.y, {
+		width: sheet.width,
+		lineBreak: false,
+		height: size * 1.4,
+		ellipsis: true
+	});
 	cursor.y += size * 1.35 + 2;
 }
 
 /** Plain wrapped text, moving to a new page when needed. */
 export function paragraph(sheet: SheetDoc, cursor: Cursor, text: string, size = 8, bold = false): void {
 	const doc = sheet.doc;
-	doc.font(bold ? FONT_BOLD : FONT).fontSize(size).fillColor('#000');
+	doc
+		.font(bold ? FONT_BOLD : FONT)
+		.fontSize(size)
+		.fillColor('#000');
 	const h = doc.heightOfString(text, { width: sheet.width });
 	if (cursor.y + h > sheet.bottom) {
 		doc.addPage();

@@ -1,7 +1,15 @@
 import { and, desc, eq, gt } from 'drizzle-orm';
 import { ApiError } from '../api';
 import { db } from '../db/index';
-import { computeFor, loadPatch, type FixtureShape, type PatchData, type ReceiverShape, type TypeShape, type UniverseShape } from '../db/patch';
+import {
+	computeFor,
+	loadPatch,
+	type FixtureShape,
+	type PatchData,
+	type ReceiverShape,
+	type TypeShape,
+	type UniverseShape
+} from '../db/patch';
 import { getProject, projectShape, type Project } from '../db/projects';
 import { revisions, signoffs } from '../db/schema';
 
@@ -44,9 +52,14 @@ interface SignoffRow {
  * The latest decision on a revision decides the line; an approval is stale once
  * a later revision exists (DESIGN "Revision").
  */
-export function signoffLine(latest: SignoffRow | undefined, laterRevision: number | null, revisionNumber: number | null): SignoffLine {
+export function signoffLine(
+	latest: SignoffRow | undefined,
+	laterRevision: number | null,
+	revisionNumber: number | null
+): SignoffLine {
 	const of = revisionNumber === null ? '' : `r${revisionNumber} `;
-	if (!latest) return { state: 'none', text: revisionNumber === null ? 'none (no revision yet)' : `${of}not signed off` };
+	if (!latest)
+		return { state: 'none', text: revisionNumber === null ? 'none (no revision yet)' : `${of}not signed off` };
 	if (latest.decision === 'changes-requested') {
 		return { state: 'changes-requested', text: `${of}changes requested by ${latest.name} on ${day(latest.createdAt)}` };
 	}
@@ -57,7 +70,13 @@ export function signoffLine(latest: SignoffRow | undefined, laterRevision: numbe
 
 function parseSnapshot(raw: unknown, current: Project): RevisionSnapshot {
 	const s = (typeof raw === 'string' ? JSON.parse(raw) : raw) as Partial<RevisionSnapshot> | null;
-	if (!s || !Array.isArray(s.fixtures) || !Array.isArray(s.universes) || !Array.isArray(s.types) || !Array.isArray(s.receivers)) {
+	if (
+		!s ||
+		!Array.isArray(s.fixtures) ||
+		!Array.isArray(s.universes) ||
+		!Array.isArray(s.types) ||
+		!Array.isArray(s.receivers)
+	) {
 		throw new Error('revision snapshot is not in the agreed { project, universes, types, receivers, fixtures } format');
 	}
 	// the snapshot's project wins (its name and Art-Net convention as they were)

@@ -87,9 +87,9 @@ export function fixtureUrl(baseUrl: string, projectId: number, number: number): 
 
 export function bitDepth(l: Lookup, f: Fixture): string {
 	const mode = l.modeById.get(f.modeId);
-	const depths = [...new Set((mode?.channels ?? []).filter((c) => c.offset !== null || f.control.kind === 'rc').map((c) => c.bits))].sort(
-		(a, b) => a - b
-	);
+	const depths = [
+		...new Set((mode?.channels ?? []).filter((c) => c.offset !== null || f.control.kind === 'rc').map((c) => c.bits))
+	].sort((a, b) => a - b);
 	return depths.length ? `${depths.join('/')}-bit` : '';
 }
 
@@ -182,11 +182,20 @@ export async function renderLabelSheet(patch: PatchData, title: TitleInfo, optio
 		doc.restore();
 		doc.font(FONT).fontSize(6.5).fillColor('#000');
 		const footerY = grid.top + grid.rows * grid.height + (grid.top - 6.5) / 2 - 2;
-		doc.text(`${title.project} · Labels · ${title.revision} · printed ${title.printed.slice(0, 10)}`, grid.left, footerY, {
+		doc.text(
+			`${title.project} · Labels · ${title.revision} · printed ${title.printed.slice(0, 10)}`,
+			grid.left,
+			footerY,
+			{
+				width: grid.columns * grid.width,
+				lineBreak: false
+			}
+		);
+		doc.text(pageLabel(p + 1, pages), grid.left, footerY, {
 			width: grid.columns * grid.width,
+			align: 'right',
 			lineBreak: false
 		});
-		doc.text(pageLabel(p + 1, pages), grid.left, footerY, { width: grid.columns * grid.width, align: 'right', lineBreak: false });
 	};
 
 	frame(0);
@@ -212,7 +221,13 @@ export async function renderLabelSheet(patch: PatchData, title: TitleInfo, optio
 		doc.font(FONT).fontSize(6.5);
 		const rest = `${t.mode}\nInput: ${t.source}`;
 		doc.text(rest, x, y, { width: textW, height: cell.y + grid.height - y - 2, ellipsis: true });
-		drawQr(doc, fixtureUrl(options.baseUrl, options.projectId, f.number), cell.x + grid.width - qr - 1 * MM, cell.y + 1.5 * MM, qr);
+		drawQr(
+			doc,
+			fixtureUrl(options.baseUrl, options.projectId, f.number),
+			cell.x + grid.width - qr - 1 * MM,
+			cell.y + 1.5 * MM,
+			qr
+		);
 	});
 	return sheet.finish();
 }

@@ -31,7 +31,10 @@ export function typeAndMode(l: Lookup, f: Pick<Fixture, 'typeId' | 'modeId'>): s
 }
 
 /** "7.505–512", "4.20, 4.30–31": universe number, then each run of slots. */
-export function addressText(universeNumber: number | string, ranges: readonly { start: number; end: number }[]): string {
+export function addressText(
+	universeNumber: number | string,
+	ranges: readonly { start: number; end: number }[]
+): string {
 	return ranges.map((r) => `${universeNumber}.${r.start}${r.end === r.start ? '' : `–${r.end}`}`).join(', ');
 }
 
@@ -167,7 +170,13 @@ export async function renderPatchSheet(patch: PatchData, title: TitleInfo, paper
 
 	// ── Conflicts first ──
 	const listed = patch.conflicts.filter((c) => c.severity !== 'info');
-	heading(sheet, cursor, listed.length === 0 ? 'No conflicts' : `Conflicts (${listed.length}) — rows marked ! and with a bar`, 10, 12);
+	heading(
+		sheet,
+		cursor,
+		listed.length === 0 ? 'No conflicts' : `Conflicts (${listed.length}) — rows marked ! and with a bar`,
+		10,
+		12
+	);
 	for (const c of listed) paragraph(sheet, cursor, `${severityWord(c)}  ${c.message}`, 7.5);
 	const links = patch.conflicts.filter((c) => c.kind === 'linked');
 	if (links.length) paragraph(sheet, cursor, `Intended links: ${links.map((c) => c.message).join('; ')}`, 7.5);
@@ -215,7 +224,10 @@ export async function renderPatchSheet(patch: PatchData, title: TitleInfo, paper
 			withFollowers(table, f, {
 				...common(f),
 				number: `${flagged.has(f.id) ? '! ' : ''}${f.number}`,
-				receiver: f.control.receiverId === null ? 'no receiver' : (receiverName.get(f.control.receiverId) ?? `receiver ${f.control.receiverId}`),
+				receiver:
+					f.control.receiverId === null
+						? 'no receiver'
+						: (receiverName.get(f.control.receiverId) ?? `receiver ${f.control.receiverId}`),
 				channels: channels || 'none assigned'
 			});
 		}

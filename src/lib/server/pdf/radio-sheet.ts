@@ -86,7 +86,13 @@ export async function renderRadioSheet(patch: PatchData, title: TitleInfo, paper
 		const unset = params.filter((p) => !Object.prototype.hasOwnProperty.call(channels, p));
 		if (unset.length) missing.push(`${f.number} ${f.label}: ${unset.join(', ')}`);
 	}
-	heading(sheet, cursor, missing.length ? `Unassigned RC parameters (${missing.length} fixtures)` : 'Unassigned RC parameters: none', 10, 20);
+	heading(
+		sheet,
+		cursor,
+		missing.length ? `Unassigned RC parameters (${missing.length} fixtures)` : 'Unassigned RC parameters: none',
+		10,
+		20
+	);
 	for (const m of missing) paragraph(sheet, cursor, m, 8);
 	const rcConflicts = patch.conflicts.filter((c) => c.kind === 'rc-collision');
 	if (rcConflicts.length) {

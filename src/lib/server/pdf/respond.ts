@@ -16,7 +16,8 @@ export type SheetKind = 'patch' | 'labels' | 'radio';
 const SHEET_TITLE: Record<SheetKind, string> = { patch: 'Patch sheet', labels: 'Labels', radio: 'Radio sheet' };
 
 function positiveInt(value: string, what: string): number {
-	if (!/^\d{1,9}$/.test(value) || Number(value) < 1) throw new ApiError(400, `${what} must be a whole number of 1 or more, not "${value}".`);
+	if (!/^\d{1,9}$/.test(value) || Number(value) < 1)
+		throw new ApiError(400, `${what} must be a whole number of 1 or more, not "${value}".`);
 	return Number(value);
 }
 
@@ -31,12 +32,22 @@ export function parseSheetQuery(params: URLSearchParams, kind: SheetKind): Sheet
 	const paper = (params.get('paper') ?? 'a4').toLowerCase();
 	if (!PAPERS.includes(paper as Paper)) throw new ApiError(400, `paper must be a4 or letter, not "${paper}".`);
 	const fixtures = params.get('fixtures');
-	if (fixtures !== null && kind !== 'labels') throw new ApiError(400, 'fixtures= chooses labels; the other sheets print the whole patch.');
+	if (fixtures !== null && kind !== 'labels')
+		throw new ApiError(400, 'fixtures= chooses labels; the other sheets print the whole patch.');
 	return {
 		paper: paper as Paper,
 		...(revision !== null ? { revision: positiveInt(revision, 'revision') } : {}),
 		...(fixtures !== null
-			? { fixtures: [...new Set(fixtures.split(',').filter((s) => s.trim() !== '').map((s) => positiveInt(s.trim(), 'Each fixture number')))] }
+			? {
+					fixtures: [
+						...new Set(
+							fixtures
+								.split(',')
+								.filter((s) => s.trim() !== '')
+								.map((s) => positiveInt(s.trim(), 'Each fixture number'))
+						)
+					]
+				}
 			: {})
 	};
 }
@@ -67,7 +78,11 @@ export async function renderSheet(projectId: number, kind: SheetKind, query: She
 	if (query.fixtures) {
 		const known = new Set(data.patch.fixtures.map((f) => f.number));
 		const unknown = query.fixtures.filter((n) => !known.has(n));
-		if (unknown.length) throw new ApiError(400, `No fixture numbered ${unknown.join(', ')} in this ${data.revision ? 'revision' : 'patch'}.`);
+		if (unknown.length)
+			throw new ApiError(
+				400,
+				`No fixture numbered ${unknown.join(', ')} in this ${data.revision ? 'revision' : 'patch'}.`
+			);
 		if (query.fixtures.length === 0) throw new ApiError(400, 'Choose at least one fixture number.');
 	}
 	const title = sheetTitle(kind, data);
@@ -76,7 +91,12 @@ export async function renderSheet(projectId: number, kind: SheetKind, query: She
 			? await renderPatchSheet(data.patch, title, query.paper)
 			: kind === 'radio'
 				? await renderRadioSheet(data.patch, title, query.paper)
-				: await renderLabelSheet(data.patch, title, { paper: query.paper, baseUrl: publicBaseUrl(), projectId, numbers: query.fixtures });
+				: await renderLabelSheet(data.patch, title, {
+						paper: query.paper,
+						baseUrl: publicBaseUrl(),
+						projectId,
+						numbers: query.fixtures
+					});
 	const name = sheetFileName(kind, data.patch.project.name, data.revision?.number ?? null);
 	return new Response(new Uint8Array(pdf), {
 		headers: {

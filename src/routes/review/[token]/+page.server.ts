@@ -18,7 +18,8 @@ export interface ReviewData {
 export const load: PageServerLoad = async (event) => {
 	const res = await event.fetch(`/api/review/${encodeURIComponent(event.params.token)}`);
 	const body = await res.json();
-	if (!res.ok) error(res.status, { message: body?.error?.message ?? 'This review link does not work.', code: body?.error?.code });
+	if (!res.ok)
+		error(res.status, { message: body?.error?.message ?? 'This review link does not work.', code: body?.error?.code });
 	return { review: body as ReviewData, signed: event.url.searchParams.get('signed') };
 };
 

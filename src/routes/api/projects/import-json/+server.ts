@@ -15,7 +15,11 @@ export const POST: RequestHandler = api(async (event) => {
 		: type.includes('application/json')
 			? await readCapped(event.request, MAX_UPLOAD_BYTES)
 			: null;
-	if (!bytes) throw new ApiError(415, 'Send the project export as application/json or multipart/form-data with a field named file.');
+	if (!bytes)
+		throw new ApiError(
+			415,
+			'Send the project export as application/json or multipart/form-data with a field named file.'
+		);
 	if (sniff(bytes) !== 'json') throw new ApiError(415, 'The file is not a JSON project export.');
 	return json(importProjectJson(user.id, decodeText(bytes)), { status: 201 });
 });

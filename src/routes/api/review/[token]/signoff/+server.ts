@@ -7,7 +7,8 @@ import type { RequestHandler } from './$types';
 
 // No account: the token authorizes signing off its own revision, under the name given.
 export const POST: RequestHandler = api(async (event) => {
-	if (!signoffByIp.hit(event.getClientAddress())) throw new ApiError(429, 'Too many sign-offs from your address; wait a minute.');
+	if (!signoffByIp.hit(event.getClientAddress()))
+		throw new ApiError(429, 'Too many sign-offs from your address; wait a minute.');
 	const { link, revision } = resolveToken(event);
 	const input = await readJson(event, linkSignoff);
 	const stored = await signOff(revision, { ...input, reviewLinkId: link.id });

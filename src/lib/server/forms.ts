@@ -1,0 +1,50 @@
+import { fail, isHttpError, isRedirect, type ActionFailure, type RequestEvent } from '@sveltejs/kit';
+import { z, ZodError } from 'zod';
+import type { FormFailure } from '../forms';
+import { zodIssues } from './api';
+import { DomainError, InvalidError } from './errors';
+
+// The one form pattern (DEVELOPERS.md "Forms"): a named action wrapped in `action()` reads the form
+// once, validates it with the zod schema the API uses, calls the same db function the API handler
+// calls, and answers every domain error as `fail(status, FormFailure)` so the page keeps its input.
+
+const SECRET = /password|token|secret/i;
+
+/** The form's fields as strings (a repeated name keeps its last value; files are skipped). */
+export function formValues(form: FormData): Record<string, string> {
+	const values: Record<string, string> = {};
+	for (const [key, value] of form) if (typeof value === 'string') values[key] = value;
+	return values;
+}
+
+/** Validates input with a shared schema; failures throw InvalidError with the field issues. */
+export function parseWith<S extends z.ZodType>(schema: S, input: unknown): z.output<S> {
+	const parsed = schema.safeParse(input);
+	if (!parsed.success) throw new InvalidError('Some fields need fixing.', zodIssues(parsed.error));
+	return parsed.data;
+}
+
+export type ActionHandler<E extends RequestEvent, R> = (event: E, form: FormData) => Promise<R> | R;
+
+/** Wraps a named action: domain and validation errors become `fail(status, FormFailure)`. */
+export function action<E extends RequestEvent, R>(
+	name: string,
+	handler: ActionHandler<E, R>
+): (event: E) => Promise<R | ActionFailure<FormFailure>> {
+	return async (event) => {
+		const form = await event.request.formData();
+		try {
+			return await handler(event, form);
+		} catch (err) {
+			if (isRedirect(err) || isHttpError(err)) throw err;
+			const values = Object.fromEntries(Object.entries(formValues(form)).filter(([k]) => !SECRET.test(k)));
+			if (err instanceof DomainError) {
+				return fail(err.status, { message: err.message, issues: err.issues() ?? [], values, action: name });
+			}
+			if (err instanceof ZodError) {
+				return fail(400, { message: 'Some fields need fixing.', issues: zodIssues(err), values, action: name });
+			}
+			throw err;
+		}
+	};
+}

@@ -1,0 +1,18 @@
+import { api } from '$lib/server/api';
+import { requireRole } from '$lib/server/authz';
+import { getProject } from '$lib/server/db/projects';
+import { exportPatchCsv } from '$lib/server/export/csv';
+import { downloadName } from '$lib/server/export/json';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = api((event) => {
+	const { projectId } = requireRole(event, event.params.pid, 'viewer');
+	const name = downloadName(getProject(projectId)!.name, 'patch', 'csv');
+	return new Response(exportPatchCsv(projectId), {
+		headers: {
+			'content-type': 'text/csv; charset=utf-8',
+			'content-disposition': `attachment; filename="${name}"`,
+			'cache-control': 'no-store'
+		}
+	});
+});

@@ -1,0 +1,155 @@
+import {
+	columnFilteringFeature,
+	columnVisibilityFeature,
+	createColumnHelper,
+	createFilteredRowModel,
+	createSortedRowModel,
+	globalFilteringFeature,
+	rowSelectionFeature,
+	rowSortingFeature,
+	sortFn_alphanumeric,
+	sortFn_basic,
+	tableFeatures,
+	type Row
+} from '@tanstack/svelte-table';
+import type { Conflict } from '$lib/patch';
+import {
+	conflictsByFixture,
+	controlText,
+	lookups,
+	slotsText,
+	swatchOf,
+	typeModeText,
+	type PatchFixtureView
+} from '$lib/client/patch-view';
+import type { PatchData } from '$lib/server/db/patch';
+
+// The patch table's row model: one flat, precomputed view per fixture so
+// sorting and filtering 20,000 rows compares plain values.
+
+export interface RowView {
+	id: string;
+	f: PatchFixtureView;
+	number: number;
+	label: string;
+	typeMode: string;
+	control: string;
+	/** universe number for sorting/filtering; null when not on DMX */
+	universe: number | null;
+	address: number | null;
+	slots: string;
+	position: string;
+	group: string;
+	state: string;
+	swatch: string | null;
+	conflicts: Conflict[];
+	haystack: string;
+}
+
+const SEVERITY_RANK: Record<string, number> = { error: 3, warning: 2, info: 1 };
+
+export function worstSeverity(list: Conflict[]): string | null {
+	let worst: string | null = null;
+	for (const c of list) if (!worst || SEVERITY_RANK[c.severity] > SEVERITY_RANK[worst]) worst = c.severity;
+	return worst;
+}
+
+export function buildRows(p: PatchData, hidden: ReadonlySet<number>): RowView[] {
+	const l = lookups(p);
+	const byFixture = conflictsByFixture(p.conflicts);
+	const rows: RowView[] = [];
+	for (const f of p.fixtures) {
+		if (hidden.has(f.id)) continue;
+		const c = f.control;
+		const uId = c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null;
+		const universe = uId != null ? (l.universes.get(uId)?.number ?? null) : null;
+		const control = controlText(f, l);
+		const typeMode = typeModeText(f, l);
+		const slots = slotsText(f.slots);
+		rows.push({
+			id: String(f.id),
+			f,
+			number: f.number,
+			label: f.label,
+			typeMode,
+			control,
+			universe,
+			address: c.kind === 'dmx' ? c.address : (f.slots[0]?.start ?? null),
+			slots,
+			position: f.position,
+			group: f.group,
+			state: f.state,
+			swatch: swatchOf(f),
+			conflicts: byFixture.get(f.id) ?? [],
+			haystack:
+				`${f.number} ${f.label} ${typeMode} ${control} ${f.position} ${f.group} ${f.linkGroup ?? ''}`.toLowerCase()
+		});
+	}
+	return rows;
+}
+
+export const features = tableFeatures({
+	rowSortingFeature,
+	sortedRowModel: createSortedRowModel(),
+	sortFns: { alphanumeric: sortFn_alphanumeric, basic: sortFn_basic },
+	columnFilteringFeature,
+	globalFilteringFeature,
+	filteredRowModel: createFilteredRowModel(),
+	columnVisibilityFeature,
+	rowSelectionFeature
+});
+
+type R = Row<typeof features, RowView>;
+const helper = createColumnHelper<typeof features, RowView>();
+
+export const columns = helper.columns([
+	helper.display({ id: 'select', header: 'Select', enableSorting: false, enableHiding: false }),
+	helper.accessor('number', { header: '#', sortFn: 'basic', enableHiding: false }),
+	helper.accessor('label', { header: 'Label', sortFn: 'alphanumeric' }),
+	helper.accessor('typeMode', { header: 'Type · mode', sortFn: 'alphanumeric' }),
+	// Sort by universe then address, not by the text "10.1" < "2.1".
+	helper.accessor((r) => (r.universe ?? 1e6) * 1000 + (r.address ?? 999), {
+		id: 'control',
+		header: 'Control',
+		sortFn: 'basic',
+		filterFn: (row: R, _id: string, value: string) =>
+			value === 'none' ? row.original.universe === null : row.original.universe === Number(value)
+	}),
+	helper.accessor('slots', { header: 'Slots', enableSorting: false }),
+	helper.accessor('position', { header: 'Position', sortFn: 'alphanumeric' }),
+	helper.accessor('group', { header: 'Group', sortFn: 'alphanumeric' }),
+	helper.accessor('state', {
+		header: 'State',
+		sortFn: 'alphanumeric',
+		filterFn: (row: R, _id: string, value: string) => row.original.state === value
+	}),
+	helper.accessor((r) => r.swatch ?? '', { id: 'colour', header: 'Look', enableSorting: false }),
+	helper.accessor((r) => r.conflicts.length, {
+		id: 'conflicts',
+		header: 'Conflicts',
+		sortFn: 'basic',
+		filterFn: (row: R, _id: string, value: boolean) => !value || row.original.conflicts.length > 0
+	})
+]);
+
+/** Grid track per column: dense on a laptop. */
+export const WIDTHS: Record<string, string> = {
+	select: '2.5rem',
+	number: '4rem',
+	label: 'minmax(8rem, 1.2fr)',
+	typeMode: 'minmax(10rem, 1.6fr)',
+	control: 'minmax(8rem, 1fr)',
+	slots: '6.5rem',
+	position: 'minmax(6rem, 0.8fr)',
+	group: 'minmax(5rem, 0.6fr)',
+	state: '6.5rem',
+	colour: '3.5rem',
+	conflicts: 'minmax(9rem, 1.2fr)'
+};
+
+/** Columns a programmer can change inline. */
+export const EDITABLE = new Set(['label', 'typeMode', 'control']);
+
+export function globalFilterFn(row: R, _id: string, value: string): boolean {
+	return row.original.haystack.includes(String(value).toLowerCase());
+}
