@@ -1,4 +1,4 @@
-import { fail, isHttpError, isRedirect, type ActionFailure, type RequestEvent } from '@sveltejs/kit';
+import { error, fail, isHttpError, isRedirect, type ActionFailure, type RequestEvent } from '@sveltejs/kit';
 import { z, ZodError } from 'zod';
 import type { FormFailure } from '../forms';
 import { zodIssues } from './api';
@@ -27,7 +27,11 @@ function formIssues(issues: Issue[]): FormFailure['issues'] {
 /** Validates input with a shared schema; failures throw InvalidError with the field issues. */
 export function parseWith<S extends z.ZodType>(schema: S, input: unknown): z.output<S> {
 	const parsed = schema.safeParse(input);
-	if (!parsed.success) throw new InvalidError('Some fields need fixing.', zodIssues(parsed.error));
+	if (!parsed.success) {
+		const issues = zodIssues(parsed.error);
+		// one problem reads best as itself; several get a summary and their fields' own messages
+		throw new InvalidError(issues.length === 1 ? issues[0].message : 'Some fields need fixing.', issues);
+	}
 	return parsed.data;
 }
 
@@ -51,6 +55,21 @@ export function action<E extends RequestEvent, R>(
 			if (err instanceof ZodError) {
 				return fail(400, { message: 'Some fields need fixing.', issues: zodIssues(err), values, action: name });
 			}
+			throw err;
+		}
+	};
+}
+
+/**
+ * Wraps a server load that calls db functions: a domain error (no such revision, a gone link …)
+ * shows the page's error view with its status and message instead of a 500.
+ */
+export function loader<E extends RequestEvent, R>(load: (event: E) => Promise<R> | R): (event: E) => Promise<R> {
+	return async (event) => {
+		try {
+			return await load(event);
+		} catch (err) {
+			if (err instanceof DomainError) error(err.status, { message: err.message, code: err.code });
 			throw err;
 		}
 	};

@@ -3,7 +3,7 @@ import type { Conflict } from '../patch/index';
 import { GoneError, NotFoundError, RateLimitedError } from './errors';
 import { publicBaseUrl } from './config';
 import { getProject } from './db/projects';
-import { lookupToken } from './db/review-links';
+import { createReviewLink, lookupToken, revokeReviewLink } from './db/review-links';
 import {
 	computeSnapshot,
 	diffSnapshots,
@@ -16,7 +16,12 @@ import {
 import { createSignoff, signoffRecipients, type NewSignoff } from './db/signoffs';
 import { sendMail } from './mail/outbox';
 import { signoffMail } from './mail/templates';
-import { reviewLookupByIp } from './ratelimit';
+import { reviewLookupByIp, signoffByIp } from './ratelimit';
+import { revisionOr404 } from './revision-access';
+import type { z } from 'zod';
+import type { reviewLinkCreate } from '../schemas/revision';
+import type { SignoffDecision } from '../vocab';
+import { reviewLinkMail } from './mail/templates';
 
 // What a review-link holder may see: one revision of one project, nothing else.
 
@@ -106,4 +111,67 @@ export async function signOff(revision: RevisionRow, input: NewSignoff) {
 		stale: revision.number < (latestRevision(revision.projectId)?.number ?? revision.number),
 		revision: revision.number
 	};
+}
+
+export interface IssuedLink {
+	id: number;
+	url: string;
+	expiresAt: string | null;
+	revision: number | 'latest';
+	mailed?: boolean;
+}
+
+/** Makes a review link (and mails it when asked). The token is in the answer's url once; only its hash is kept. */
+export async function issueReviewLink(
+	projectId: number,
+	user: { id: string; name: string | null; email: string },
+	input: z.output<typeof reviewLinkCreate>
+): Promise<IssuedLink> {
+	const revision = input.revision === 'latest' ? null : revisionOr404(projectId, String(input.revision));
+	const { row, token } = createReviewLink(projectId, user.id, {
+		revisionId: revision?.id ?? null,
+		expiresInDays: input.expiresInDays,
+		label: input.email ?? ''
+	});
+	const url = `${publicBaseUrl()}/review/${token}`;
+	let mailed: boolean | undefined;
+	if (input.email) {
+		mailed = await sendMail(
+			reviewLinkMail(input.email, {
+				projectName: getProject(projectId)?.name ?? '',
+				revision: revision?.number ?? 'latest',
+				sentBy: user.name || user.email,
+				expiresAt: row.expiresAt,
+				url
+			})
+		);
+	}
+	return {
+		id: row.id,
+		url,
+		expiresAt: row.expiresAt?.toISOString() ?? null,
+		revision: revision?.number ?? 'latest',
+		...(mailed === undefined ? {} : { mailed })
+	};
+}
+
+/** Revokes the link; its token answers 410 from then on. */
+export function revokeLink(projectId: number, id: number | null, userId: string): void {
+	if (id === null || !revokeReviewLink(projectId, id, userId))
+		throw new NotFoundError('No such review link in this project.');
+}
+
+/** Sign-offs per client address: counted before the body is read, as for review-link lookups. */
+export function throttleSignoff(clientAddress: string): void {
+	if (!signoffByIp.hit(clientAddress))
+		throw new RateLimitedError('Too many sign-offs from your address; wait a minute.');
+}
+
+/** A member's sign-off of a revision, under their account's name. */
+export function memberSignOff(
+	revision: RevisionRow,
+	user: { id: string; name: string | null; email: string },
+	input: { decision: SignoffDecision; comment: string }
+) {
+	return signOff(revision, { ...input, name: user.name || user.email, userId: user.id });
 }

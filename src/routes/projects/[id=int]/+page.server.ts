@@ -1,14 +1,11 @@
-import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/authz';
-import type { PatchData } from '$lib/server/db/patch';
+import { loadPatchCached } from '$lib/server/db/patch';
 import type { PageServerLoad } from './$types';
 
 // Counts and open conflicts only: the overview never ships the fixture list.
 export const load: PageServerLoad = async (event) => {
-	requireRole(event, event.params.id, 'viewer');
-	const res = await event.fetch(`/api/projects/${event.params.id}/patch`);
-	if (!res.ok) error(res.status, 'The patch could not be loaded');
-	const p = (await res.json()) as PatchData;
+	const { projectId } = requireRole(event, event.params.id, 'viewer');
+	const p = loadPatchCached(projectId);
 	const byState: Record<string, number> = {};
 	const byUniverse = new Map<number | null, number>();
 	for (const f of p.fixtures) {

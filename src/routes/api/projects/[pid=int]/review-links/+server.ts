@@ -1,12 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
-import { publicBaseUrl } from '$lib/server/config';
-import { getProject } from '$lib/server/db/projects';
-import { createReviewLink, listReviewLinks } from '$lib/server/db/review-links';
-import { sendMail } from '$lib/server/mail/outbox';
-import { reviewLinkMail } from '$lib/server/mail/templates';
-import { revisionOr404 } from '$lib/server/revision-access';
+import { listReviewLinks } from '$lib/server/db/review-links';
+import { issueReviewLink } from '$lib/server/review';
 import { reviewLinkCreate } from '$lib/schemas/revision';
 import type { RequestHandler } from './$types';
 
@@ -19,33 +15,5 @@ export const GET: RequestHandler = api((event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
 	const input = await readJson(event, reviewLinkCreate);
-	const revision = input.revision === 'latest' ? null : revisionOr404(projectId, String(input.revision));
-	const { row, token } = createReviewLink(projectId, user.id, {
-		revisionId: revision?.id ?? null,
-		expiresInDays: input.expiresInDays,
-		label: input.email ?? ''
-	});
-	const url = `${publicBaseUrl()}/review/${token}`;
-	let mailed: boolean | undefined;
-	if (input.email) {
-		mailed = await sendMail(
-			reviewLinkMail(input.email, {
-				projectName: getProject(projectId)?.name ?? '',
-				revision: revision?.number ?? 'latest',
-				sentBy: user.name || user.email,
-				expiresAt: row.expiresAt,
-				url
-			})
-		);
-	}
-	return json(
-		{
-			id: row.id,
-			url,
-			expiresAt: row.expiresAt?.toISOString() ?? null,
-			revision: revision?.number ?? 'latest',
-			...(mailed === undefined ? {} : { mailed })
-		},
-		{ status: 201 }
-	);
+	return json(await issueReviewLink(projectId, user, input), { status: 201 });
 });

@@ -1,15 +1,13 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/authz';
-import type { PatchData } from '$lib/server/db/patch';
+import { loadPatchCached } from '$lib/server/db/patch';
 import type { PageServerLoad } from './$types';
 
 // One universe: its fixtures (with their modes) and conflicts, plus the list
 // of universes for the switcher.
 export const load: PageServerLoad = async (event) => {
-	const { role } = requireRole(event, event.params.id, 'viewer');
-	const res = await event.fetch(`/api/projects/${event.params.id}/patch`);
-	if (!res.ok) error(res.status, 'The patch could not be loaded');
-	const p = (await res.json()) as PatchData;
+	const { projectId, role } = requireRole(event, event.params.id, 'viewer');
+	const p = loadPatchCached(projectId);
 	const n = Number(event.params.n);
 	const universe = p.universes.find((u) => u.number === n);
 	if (!universe) error(404, `No universe ${event.params.n} in this project`);

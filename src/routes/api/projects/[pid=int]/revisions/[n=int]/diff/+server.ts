@@ -1,8 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, ApiError } from '$lib/server/api';
+import { api } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
-import { diffSnapshots, liveSnapshot, snapshotOf } from '$lib/server/db/revisions';
-import { revisionOr404 } from '$lib/server/revision-access';
+import { revisionDiff } from '$lib/server/revision-access';
 import type { RequestHandler } from './$types';
 
 /**
@@ -11,20 +10,5 @@ import type { RequestHandler } from './$types';
  */
 export const GET: RequestHandler = api((event) => {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	const row = revisionOr404(projectId, event.params.n);
-	const against = event.url.searchParams.get('against');
-	if (!against) throw new ApiError(400, 'Say what to compare with: ?against=<revision number> or ?against=live.');
-	if (against === 'live') {
-		return json({
-			before: { revision: row.number },
-			after: { revision: 'live' },
-			...diffSnapshots(snapshotOf(row), liveSnapshot(projectId))
-		});
-	}
-	const other = revisionOr404(projectId, against);
-	return json({
-		before: { revision: other.number },
-		after: { revision: row.number },
-		...diffSnapshots(snapshotOf(other), snapshotOf(row))
-	});
+	return json(revisionDiff(projectId, event.params.n, event.url.searchParams.get('against')));
 });
