@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 import { FIXTURE_STATES } from '../vocab';
 
 // Fixture bodies for the JSON API and the forms; client-safe. Checks that need

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 import { ROLES } from '../vocab';
 
 // Shared by the JSON API and the forms; client-safe (no server imports).

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 import { RC_PROTOCOLS, type RcProtocol } from '../vocab';
 import { defaultChannelCount } from '../patch/index';
 

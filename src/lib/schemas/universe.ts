@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 import { TRANSPORTS } from '../vocab';
 
 // Universe bodies for the JSON API and the forms; client-safe.
