@@ -14,7 +14,7 @@ import {
 	type RevisionRow
 } from './db/revisions';
 import { createSignoff, signoffRecipients, type NewSignoff } from './db/signoffs';
-import { sendMail } from './mail/outbox';
+import { queueMail } from './mail/outbox';
 import { signoffMail } from './mail/templates';
 import { reviewLookupByIp } from './ratelimit';
 
@@ -83,8 +83,8 @@ export function revisionsPageUrl(projectId: number): string {
 export async function signOff(revision: RevisionRow, input: NewSignoff) {
 	const row = createSignoff(revision, input);
 	const project = getProject(revision.projectId);
-	const mails = signoffRecipients(revision.projectId).map((to) =>
-		sendMail(
+	for (const to of signoffRecipients(revision.projectId)) {
+		queueMail(
 			signoffMail(to, {
 				projectName: project?.name ?? '',
 				revision: revision.number,
@@ -93,11 +93,10 @@ export async function signOff(revision: RevisionRow, input: NewSignoff) {
 				name: row.name,
 				comment: row.comment,
 				url: revisionsPageUrl(revision.projectId)
-			})
-		).catch((err: unknown) => console.error('sign-off mail not queued', err))
-	);
-	// A slow mail server must not hold the answer: the outbox has the mail either way.
-	await Promise.race([Promise.allSettled(mails), new Promise((r) => setTimeout(r, 5000).unref())]);
+			}),
+			{ projectId: revision.projectId, kind: 'sign-off' }
+		);
+	}
 	return {
 		decision: row.decision,
 		name: row.name,
