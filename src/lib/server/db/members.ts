@@ -1,6 +1,6 @@
 import { and, asc, eq, isNull, sql } from 'drizzle-orm';
 import { now } from '../clock';
-import { DomainError, DuplicateError, ForbiddenError, GoneError, NotFoundError, RefusedError } from '../errors';
+import { DuplicateError, ForbiddenError, GoneError, NotFoundError, RefusedError } from '../errors';
 import { recordAudit } from './audit';
 import { db } from './index';
 import { invitations, memberships, users, type Role } from './schema';
@@ -9,13 +9,8 @@ import { invitations, memberships, users, type Role } from './schema';
 // and nobody becomes a member except by accepting an invitation with a verified address.
 
 /** 409 `last-owner`, the code the API has always answered for this rule. */
-export class LastOwnerError extends DomainError {
-	readonly status = 409;
-	readonly code = 'last-owner';
-	constructor() {
-		super('A project needs at least one owner: make someone else owner first.');
-	}
-}
+const lastOwner = () =>
+	new RefusedError('A project needs at least one owner: make someone else owner first.', { code: 'last-owner' });
 
 function roleOf(projectId: number, userId: string): Role {
 	const row = db()
@@ -46,7 +41,7 @@ function setRole(projectId: number, userId: string, role: Role) {
 export function changeMemberRole(projectId: number, byUserId: string, userId: string, role: Role): void {
 	db().transaction(() => {
 		const before = roleOf(projectId, userId);
-		if (before === 'owner' && role !== 'owner' && owners(projectId) === 1) throw new LastOwnerError();
+		if (before === 'owner' && role !== 'owner' && owners(projectId) === 1) throw lastOwner();
 		setRole(projectId, userId, role);
 		recordAudit({
 			projectId,
@@ -63,7 +58,7 @@ export function changeMemberRole(projectId: number, byUserId: string, userId: st
 export function removeProjectMember(projectId: number, byUserId: string, userId: string): void {
 	db().transaction(() => {
 		const before = roleOf(projectId, userId);
-		if (before === 'owner' && owners(projectId) === 1) throw new LastOwnerError();
+		if (before === 'owner' && owners(projectId) === 1) throw lastOwner();
 		db()
 			.delete(memberships)
 			.where(and(eq(memberships.projectId, projectId), eq(memberships.userId, userId)))
@@ -140,9 +135,11 @@ export function storeInvitation(input: {
 }) {
 	return db().transaction(() => {
 		if (isMemberByEmail(input.projectId, input.email)) {
-			throw new DuplicateError(`${input.email} is already a member; change their role instead.`, [
-				{ path: ['email'], message: 'Already a member of this project.' }
-			]);
+			throw new DuplicateError(
+				`${input.email} is already a member; change their role instead.`,
+				[{ path: ['email'], message: 'Already a member of this project.' }],
+				{ code: 'exists' }
+			);
 		}
 		db()
 			.delete(invitations)
