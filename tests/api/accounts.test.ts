@@ -1,10 +1,10 @@
-import { eq } from 'drizzle-orm';
+import { and, eq } from 'drizzle-orm';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { Client, startServer, type TestServer } from '../helpers/server';
 import { makeCrew, makeUser, PASSWORD, uniqueEmail } from '../helpers/factories';
-import { projects, users } from '../../src/lib/server/db/schema';
+import { auditLog, invitations, projects, users } from '../../src/lib/server/db/schema';
 
 // Issue 12, one test per hole (each failed on the code before the fix). Server A: the usual test
 // settings. Server B: real throttle limits (scale 1) and a clock the test moves (PATCHWRIGHT_CLOCK_FILE).
@@ -278,6 +278,15 @@ describe('hole 5: no mail relay', () => {
 			last = await owner.post(`/api/projects/${project.id}/members`, { email, role: 'viewer' });
 		}
 		expect(last!.status).toBe(429);
+		// each accepted call renewed the one pending invitation (5 audited invites); the refused sixth wrote nothing
+		expect(b.db().select().from(invitations).where(eq(invitations.email, email)).all()).toHaveLength(1);
+		const audited = b
+			.db()
+			.select()
+			.from(auditLog)
+			.where(and(eq(auditLog.projectId, project.id), eq(auditLog.action, 'member.invite')))
+			.all();
+		expect(audited).toHaveLength(5);
 		const body = await last!.json();
 		expect(body.error.message).toMatch(/Too many invitations — try again in \d+ minutes?/);
 		expect(body.retryAfter).toBeGreaterThan(0);
