@@ -4,6 +4,15 @@ import globals from 'globals';
 import ts from 'typescript-eslint';
 import svelteConfig from './svelte.config.js';
 
+const NO_SERVER = {
+	group: ['$lib/server/*', '**/server/*'],
+	message: 'Browser code takes API shapes from $lib/shapes and vocabularies from $lib/vocab.'
+};
+const NO_CLIENT = {
+	group: ['$lib/client/*', '**/client/*'],
+	message: 'Server code reads $lib/patch-view, $lib/shapes and $lib/vocab, never $lib/client.'
+};
+
 export default ts.config(
 	{ ignores: ['build/', '.svelte-kit/', 'node_modules/', 'data/', 'drizzle/', 'test-results/'] },
 	js.configs.recommended,
@@ -38,8 +47,18 @@ export default ts.config(
 		}
 	},
 	{
+		// one home for API shapes (DEVELOPERS.md "Shapes"): browser code takes types from $lib/shapes
+		files: ['src/**/*.svelte', 'src/**/*.svelte.ts', 'src/lib/client/**/*.ts', 'src/routes/**/rows.ts'],
+		rules: { '@typescript-eslint/no-restricted-imports': ['error', { patterns: [NO_SERVER] }] }
+	},
+	{
+		files: ['src/**/*.server.ts', 'src/lib/server/**/*.ts'],
+		rules: { '@typescript-eslint/no-restricted-imports': ['error', { patterns: [NO_CLIENT] }] }
+	},
+	{
 		// one error model (DEVELOPERS.md "Errors"): below the routes, throw the domain errors of
-		// src/lib/server/errors.ts; only api() and action() know about HTTP
+		// src/lib/server/errors.ts; only api() and action() know about HTTP. (Later blocks replace a
+		// rule's options, so this one repeats NO_CLIENT.)
 		files: [
 			'src/lib/server/db/**/*.ts',
 			'src/lib/server/import/**/*.ts',
@@ -64,7 +83,8 @@ export default ts.config(
 							group: ['**/api', '$lib/server/api'],
 							importNames: ['ApiError', 'apiError', 'api'],
 							message: 'Throw a domain error from src/lib/server/errors.ts; api() maps it once.'
-						}
+						},
+						NO_CLIENT
 					]
 				}
 			]

@@ -1,5 +1,5 @@
 // What the UI offers per role. The server refuses anyway; this only hides.
-export type Role = 'viewer' | 'electrician' | 'programmer' | 'owner';
+export type { Role } from '../vocab';
 
 export const canEditPatch = (role: string) => role === 'programmer' || role === 'owner';
 export const canSetState = (role: string) => role !== 'viewer';

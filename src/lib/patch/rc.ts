@@ -4,14 +4,14 @@ import type { RcProtocol } from './types';
 // Channel pools per protocol. SBUS: 16 proportional channels of 11 bits plus 2 digital ones
 // (17, 18) in the flags byte (common practice, as documented by the open flight-controller
 // projects). CRSF as used on ELRS/Crossfire links carries 16; PPM commonly 8.
-export const RC_PROTOCOLS: Record<RcProtocol, { proportional: number; digital: number }> = {
+export const RC_CHANNEL_POOLS: Record<RcProtocol, { proportional: number; digital: number }> = {
 	sbus: { proportional: 16, digital: 2 },
 	crsf: { proportional: 16, digital: 0 },
 	ppm: { proportional: 8, digital: 0 }
 };
 
 export function defaultChannelCount(protocol: RcProtocol): number {
-	const p = RC_PROTOCOLS[protocol];
+	const p = RC_CHANNEL_POOLS[protocol];
 	return p.proportional + p.digital;
 }
 
@@ -107,7 +107,7 @@ function unitsOf(fixtures: readonly RcFixtureInput[]): Unit[] {
  */
 export function assignRc(input: AssignRcInput): AssignRcResult {
 	const { receiver } = input;
-	const pool = RC_PROTOCOLS[receiver.protocol];
+	const pool = RC_CHANNEL_POOLS[receiver.protocol];
 	const count = receiver.channelCount ?? defaultChannelCount(receiver.protocol);
 	const lastProportional = Math.min(pool.proportional, count);
 	const digitalChannels: number[] = [];

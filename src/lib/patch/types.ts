@@ -2,9 +2,8 @@
 
 export type Bits = 8 | 16 | 24;
 
-export type Transport = 'dmx-wired' | 'dmx-wireless' | 'sacn' | 'artnet';
-
-export type RcProtocol = 'sbus' | 'crsf' | 'ppm';
+export type { RcProtocol, Transport } from '../vocab';
+import type { RcProtocol, Transport } from '../vocab';
 
 export interface ModeChannel {
 	/** 1-based slot of the channel's first (coarse) byte; null for a virtual channel with no slot. */

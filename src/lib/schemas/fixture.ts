@@ -1,11 +1,10 @@
 import { z } from 'zod';
 import '../messages';
+import { FIXTURE_STATES } from '../vocab';
 
 // Fixture bodies for the JSON API and the forms; client-safe. Checks that need
 // the database (the universe is this project's, the mode is the type's, the
 // footprint fits) run on the server in src/lib/server/db/fixtures.ts.
-
-export const FIXTURE_STATE_VALUES = ['planned', 'hung', 'addressed', 'checked', 'fault'] as const;
 
 const id = z.int().positive();
 // ANSI E1.11: slots 1–512
@@ -42,7 +41,7 @@ const fields = {
 	colour: z.string().trim().max(40),
 	watts: z.int().min(0).max(100000).nullable(),
 	notes: z.string().max(5000),
-	state: z.enum(FIXTURE_STATE_VALUES),
+	state: z.enum(FIXTURE_STATES),
 	look: lookInput,
 	control: controlInput
 };

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import '../messages';
+import { ROLES } from '../vocab';
 
 // Shared by the JSON API and the forms; client-safe (no server imports).
 
@@ -19,14 +20,12 @@ export const projectCreate = z.strictObject({
 
 export const projectPatch = projectCreate.partial().extend({ version: z.int().positive() });
 
-export const ROLE_VALUES = ['owner', 'programmer', 'electrician', 'viewer'] as const;
-
 export const memberInvite = z.strictObject({
 	email: z.string().trim().toLowerCase().email('Enter an e-mail address.').max(254),
-	role: z.enum(ROLE_VALUES)
+	role: z.enum(ROLES)
 });
 
 export const memberPatch = z.strictObject({
-	role: z.enum(ROLE_VALUES),
+	role: z.enum(ROLES),
 	version: z.int().positive().optional()
 });

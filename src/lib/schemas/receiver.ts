@@ -1,11 +1,10 @@
 import { z } from 'zod';
 import '../messages';
+import { RC_PROTOCOLS, type RcProtocol } from '../vocab';
 import { defaultChannelCount } from '../patch/index';
 
 // Receivers; client-safe. Channel pools per protocol follow the engine
 // (SBUS 16 + 2 digital, CRSF 16, PPM 8).
-
-export const RC_PROTOCOL_VALUES = ['sbus', 'crsf', 'ppm'] as const;
 
 /** { "3": "left stick up/down" } — keys are channel numbers. */
 export const receiverLabels = z.record(
@@ -15,7 +14,7 @@ export const receiverLabels = z.record(
 
 const fields = {
 	name: z.string().trim().min(1, 'Name the receiver.').max(120),
-	protocol: z.enum(RC_PROTOCOL_VALUES),
+	protocol: z.enum(RC_PROTOCOLS),
 	transmitterNotes: z.string().max(5000)
 };
 
@@ -37,7 +36,7 @@ export const receiverPatch = z.strictObject({
 });
 
 export function checkLabels(
-	protocol: (typeof RC_PROTOCOL_VALUES)[number],
+	protocol: RcProtocol,
 	labels: Record<string, string>,
 	ctx: { addIssue: (i: { code: 'custom'; path: (string | number)[]; message: string }) => void }
 ): void {

@@ -1,15 +1,14 @@
 import { z } from 'zod';
 import '../messages';
+import { TRANSPORTS } from '../vocab';
 
 // Universe bodies for the JSON API and the forms; client-safe.
-
-export const TRANSPORT_VALUES = ['dmx-wired', 'dmx-wireless', 'sacn', 'artnet'] as const;
 
 const fields = {
 	// ANSI E1.31: sACN universes run 1–63999; we use the same range on paper for every transport
 	number: z.int().min(1, 'Universe numbers start at 1.').max(63999, 'Universe numbers stop at 63999.'),
 	name: z.string().trim().max(120),
-	transport: z.enum(TRANSPORT_VALUES),
+	transport: z.enum(TRANSPORTS),
 	notes: z.string().max(5000)
 };
 

@@ -1,17 +1,17 @@
 import { asc, eq, inArray } from 'drizzle-orm';
-import {
-	computePatch,
-	defaultChannelCount,
-	modeSlotCount,
-	type Conflict,
-	type FixtureControl,
-	type Mode,
-	type ModeChannel,
-	type PatchResult,
-	type SlotRange
-} from '../../patch/index';
+import { computePatch, defaultChannelCount, modeSlotCount, type FixtureControl, type Mode } from '../../patch/index';
+import type {
+	ChannelShape,
+	FixtureShape,
+	ModeShape,
+	PatchData,
+	Project,
+	ReceiverShape,
+	TypeShape,
+	UniverseShape
+} from '../../shapes';
 import { db } from './index';
-import { getProject, projectShape, type Project } from './projects';
+import { getProject, projectShape } from './projects';
 import { fixtureTypes, fixtures, modeChannels, modes, receiverLabels, receivers, universes } from './schema';
 
 // The one place rows become the API's shapes (DESIGN.md "Shapes"). The JSON
@@ -20,57 +20,16 @@ import { fixtureTypes, fixtures, modeChannels, modes, receiverLabels, receivers,
 export type FixtureRow = typeof fixtures.$inferSelect;
 export type UniverseRow = typeof universes.$inferSelect;
 export type ReceiverRow = typeof receivers.$inferSelect;
-
-/** A mode's channel as the API shows it: exactly the engine's input. */
-export type ChannelShape = ModeChannel;
-export interface ModeShape {
-	id: number;
-	name: string;
-	slots: number;
-	channels: ChannelShape[];
-}
-export interface TypeShape {
-	id: number;
-	maker: string;
-	model: string;
-	notes: string;
-	version: number;
-	modes: ModeShape[];
-}
-export interface FixtureShape {
-	id: number;
-	number: number;
-	label: string;
-	typeId: number;
-	modeId: number;
-	position: string;
-	group: string;
-	linkGroup: string | null;
-	colour: string;
-	watts: number | null;
-	notes: string;
-	state: FixtureRow['state'];
-	version: number;
-	look: { hue: number | null; saturation: number | null; intensity: number | null; cct: number | null };
-	control: FixtureControl;
-}
-export interface UniverseShape {
-	id: number;
-	number: number;
-	name: string;
-	transport: UniverseRow['transport'];
-	notes: string;
-	version: number;
-}
-export interface ReceiverShape {
-	id: number;
-	name: string;
-	protocol: ReceiverRow['protocol'];
-	channelCount: number;
-	transmitterNotes: string;
-	labels: Record<string, string>;
-	version: number;
-}
+// the shapes live client-safe in src/lib/shapes.ts; re-exported for the server modules that read them here
+export type {
+	ChannelShape,
+	FixtureShape,
+	ModeShape,
+	PatchData,
+	ReceiverShape,
+	TypeShape,
+	UniverseShape
+} from '../../shapes';
 
 export function controlOf(f: FixtureRow): FixtureControl {
 	switch (f.controlKind) {
@@ -267,15 +226,6 @@ export function listFixtures(projectId: number): FixtureShape[] {
 		.orderBy(asc(fixtures.number))
 		.all()
 		.map(fixtureShape);
-}
-
-export interface PatchData {
-	project: Project;
-	universes: (UniverseShape & PatchResult['universes'][number])[];
-	types: TypeShape[];
-	receivers: ReceiverShape[];
-	fixtures: (FixtureShape & { slots: SlotRange[]; footprint: number | null })[];
-	conflicts: Conflict[];
 }
 
 /** Everything the patch consists of, plus what the engine computes from it. */

@@ -1,4 +1,5 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
+import type { Member, Project } from '../../shapes';
 import { db } from './index';
 import { recordAudit } from './audit';
 import { StaleVersionError } from './errors';
@@ -6,7 +7,7 @@ import { invitations, memberships, projects, users, type Role } from './schema';
 
 export type ProjectRow = typeof projects.$inferSelect;
 
-export function projectShape(p: ProjectRow, role?: Role) {
+export function projectShape(p: ProjectRow, role?: Role): Project {
 	return {
 		id: p.id,
 		name: p.name,
@@ -21,7 +22,7 @@ export function projectShape(p: ProjectRow, role?: Role) {
 		...(role ? { role } : {})
 	};
 }
-export type Project = ReturnType<typeof projectShape>;
+export type { Project };
 
 export function listProjectsForUser(userId: string): Project[] {
 	return db()
@@ -64,7 +65,7 @@ export function createProject(userId: string, input: NewProject): ProjectRow {
 	});
 }
 
-export function listMembers(projectId: number) {
+export function listMembers(projectId: number): Member[] {
 	return db()
 		.select({
 			userId: users.id,

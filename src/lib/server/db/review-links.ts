@@ -7,16 +7,8 @@ import { reviewLinks, revisions, users } from './schema';
 
 export type ReviewLinkRow = typeof reviewLinks.$inferSelect;
 
-export interface ReviewLinkShape {
-	id: number;
-	revision: number | 'latest';
-	label: string;
-	createdBy: string;
-	createdAt: string;
-	expiresAt: string | null;
-	revokedAt: string | null;
-	status: 'active' | 'expired' | 'revoked';
-}
+import type { ReviewLinkShape } from '../../shapes';
+export type { ReviewLinkShape };
 
 const DAY = 24 * 60 * 60 * 1000;
 

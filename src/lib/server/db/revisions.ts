@@ -15,7 +15,8 @@ import {
 	type UniverseShape
 } from './patch';
 import { getProject, projectShape, type Project } from './projects';
-import { revisions, signoffs, type Decision } from './schema';
+import { revisions, signoffs } from './schema';
+import type { RevisionShape, SignoffShape } from '../../shapes';
 
 // Revisions are written once and never updated or deleted through the app.
 
@@ -28,21 +29,7 @@ export interface RevisionSnapshot {
 	fixtures: FixtureShape[];
 }
 
-export interface SignoffShape {
-	decision: Decision;
-	name: string;
-	comment: string;
-	at: string;
-	stale: boolean;
-}
-
-export interface RevisionShape {
-	number: number;
-	note: string;
-	author: string;
-	createdAt: string;
-	signoffs: SignoffShape[];
-}
+export type { RevisionShape, SignoffShape };
 
 export type RevisionRow = typeof revisions.$inferSelect;
 

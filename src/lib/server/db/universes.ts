@@ -2,11 +2,12 @@ import { and, asc, eq, sql } from 'drizzle-orm';
 import { recordAudit } from './audit';
 import { DuplicateError, InUseError, NotFoundError, StaleVersionError } from '../errors';
 import { db } from './index';
-import { controlColumns, loadPatchCached, universeShape, type PatchData } from './patch';
+import { controlColumns, loadPatchCached, universeShape } from './patch';
 import { fixtures, universes } from './schema';
 import type { UniverseCreate, UniversePatch } from '../../schemas/universe';
 
-export type UniverseWithNumbers = PatchData['universes'][number];
+export type { UniverseWithNumbers } from '../../shapes';
+import type { UniverseWithNumbers } from '../../shapes';
 
 /** Universes with their computed sACN/Art-Net numbers, slots used and refresh (DESIGN "universe"). */
 export function listUniversesComputed(projectId: number): UniverseWithNumbers[] {

@@ -1,5 +1,5 @@
 import { DuplicateError, UnsupportedTypeError } from '../errors';
-import { createType } from '../db/types';
+import { createType } from '../db/fixture-types';
 import { listTypes, type TypeShape } from '../db/patch';
 import { importCsv, type CsvSummary } from './csv';
 import { parseGdtf } from './gdtf';

@@ -4,7 +4,7 @@ import { createFixtures } from '../db/fixtures';
 import { db } from '../db/index';
 import { createProject, projectShape, type Project } from '../db/projects';
 import { createReceiver } from '../db/receivers';
-import { createType } from '../db/types';
+import { createType } from '../db/fixture-types';
 import { createUniverse } from '../db/universes';
 import { fixtureCreate, type FixtureCreate } from '../../schemas/fixture';
 import { projectCreate } from '../../schemas/project';

@@ -1,4 +1,4 @@
-import { RC_PROTOCOLS, RC_RAW_MAX, RC_RAW_MIN, rcRawToMicros, type RcProtocol } from '../../patch/index';
+import { RC_CHANNEL_POOLS, RC_RAW_MAX, RC_RAW_MIN, rcRawToMicros, type RcProtocol } from '../../patch/index';
 import type { PatchData } from '../db/patch';
 import { heading, openSheet, paragraph, Table, type Column, type Cursor, type Paper, type TitleInfo } from './common';
 import { lookup } from './patch-sheet';
@@ -19,7 +19,7 @@ export const RC_CAUTION =
 
 /** What a channel sends end to end, from the engine's conversions: raw 172–1811 is 988–2012 µs. */
 export function valueRange(protocol: RcProtocol, channel: number): string {
-	const p = RC_PROTOCOLS[protocol];
+	const p = RC_CHANNEL_POOLS[protocol];
 	if (channel > p.proportional) return 'on / off (digital)';
 	const us = `${Math.round(rcRawToMicros(RC_RAW_MIN))}–${Math.round(rcRawToMicros(RC_RAW_MAX))} µs`;
 	return protocol === 'ppm' ? us : `raw ${RC_RAW_MIN}–${RC_RAW_MAX} · ${us}`;

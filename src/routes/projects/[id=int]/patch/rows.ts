@@ -21,8 +21,8 @@ import {
 	swatchOf,
 	typeModeText,
 	type PatchFixtureView
-} from '$lib/client/patch-view';
-import type { PatchData } from '$lib/server/db/patch';
+} from '$lib/patch-view';
+import type { PatchData } from '$lib/shapes';
 
 // The patch table's row model: one flat, precomputed view per fixture so
 // sorting and filtering 20,000 rows compares plain values.

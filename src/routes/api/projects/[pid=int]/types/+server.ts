@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
 import { listTypes } from '$lib/server/db/patch';
-import { createType } from '$lib/server/db/types';
+import { createType } from '$lib/server/db/fixture-types';
 import { typeCreate } from '$lib/schemas/type';
 import type { RequestHandler } from './$types';
 

@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import { api, ApiError, readJson } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
 import { idParam } from '$lib/server/params';
-import { deleteType, getType, updateType } from '$lib/server/db/types';
+import { deleteType, getType, updateType } from '$lib/server/db/fixture-types';
 import { typePatch } from '$lib/schemas/type';
 import type { RequestHandler } from './$types';
 
