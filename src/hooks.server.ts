@@ -1,17 +1,24 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth/index';
+import { readSession } from '$lib/server/auth/session';
 import { db } from '$lib/server/db/index';
+import { purgeRevokedSessions } from '$lib/server/db/users';
 import { retryOutbox } from '$lib/server/mail/outbox';
-import { signInByIp } from '$lib/server/ratelimit';
+import { linkMailByAddress, linkMailByIp, retryWords, signInByIp } from '$lib/server/ratelimit';
 
 export const init: ServerInit = () => {
 	// open the database (and apply pending migrations) before the first request
 	db();
-	const timer = setInterval(() => {
-		retryOutbox().catch((err: unknown) => console.error('mail retry failed', err));
-	}, 60_000);
+	const timer = setInterval(
+		() => {
+			retryOutbox().catch((err: unknown) => console.error('mail retry failed', err));
+		},
+		Number(process.env.MAIL_RETRY_INTERVAL_MS) || 30_000
+	);
 	timer.unref();
+	const purge = setInterval(() => purgeRevokedSessions(), 3_600_000);
+	purge.unref();
 };
 
 const limitSignIn: Handle = ({ event, resolve }) => {
@@ -23,10 +30,40 @@ const limitSignIn: Handle = ({ event, resolve }) => {
 	return resolve(event);
 };
 
-const readSession: Handle = async ({ event, resolve }) => {
-	const session = await event.locals.auth();
-	const user = session?.user;
-	event.locals.user = user?.id && user.email ? { id: user.id, email: user.email, name: user.name ?? null } : null;
+/**
+ * Sign-in links are mail a stranger can make us send: per address and per client, before Auth.js
+ * stores a token or queues a message. A browser goes back to the sign-in page with the wait named.
+ */
+const limitSignInLinks: Handle = async ({ event, resolve }) => {
+	if (event.request.method === 'POST' && event.url.pathname === '/auth/signin/nodemailer') {
+		let email = '';
+		try {
+			email = String((await event.request.clone().formData()).get('email') ?? '')
+				.trim()
+				.toLowerCase();
+		} catch {
+			/* Auth.js answers a malformed body itself */
+		}
+		const wait = Math.max(linkMailByAddress.retryAfter(email), linkMailByIp.retryAfter(event.getClientAddress()));
+		if (wait > 0) {
+			const message = `Too many sign-in links asked for — try again ${retryWords(wait)}.`;
+			if ((event.request.headers.get('accept') ?? '').includes('text/html')) {
+				const location = `/signin?error=TooManyLinks&retry=${Math.ceil(wait / 60)}`;
+				return new Response(null, { status: 303, headers: { location, 'retry-after': String(wait) } });
+			}
+			return Response.json(
+				{ error: { code: 'rate-limited', message }, retryAfter: wait },
+				{ status: 429, headers: { 'retry-after': String(wait) } }
+			);
+		}
+		linkMailByAddress.count(email);
+		linkMailByIp.count(event.getClientAddress());
+	}
+	return resolve(event);
+};
+
+const readUser: Handle = async ({ event, resolve }) => {
+	event.locals.user = await readSession(event.cookies, event.url.protocol === 'https:');
 	return resolve(event);
 };
 
@@ -45,7 +82,7 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(limitSignIn, authHandle, readSession, securityHeaders);
+export const handle = sequence(limitSignIn, limitSignInLinks, authHandle, readUser, securityHeaders);
 
 export const handleError: HandleServerError = ({ error, status }) => {
 	if (status !== 404) console.error(error);

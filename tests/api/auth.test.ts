@@ -70,7 +70,7 @@ describe('sign-in (Auth.js credentials)', () => {
 });
 
 describe('sign-up', () => {
-	it('creates an account that can then sign in', async () => {
+	it('mails a confirmation link; the account exists (and signs in) only once the link is used', async () => {
 		const client = server.anonymous();
 		const res = await client.form('/signup', {
 			name: 'New Gaffer',
@@ -78,12 +78,21 @@ describe('sign-up', () => {
 			password: 'a long enough password'
 		});
 		expect(res.status).toBe(303);
-		expect(res.headers.get('location')).toContain('/signin?registered=1');
+		expect(res.headers.get('location')).toContain('/signin/check-email?why=signup');
+		await expect(server.signIn('new.gaffer@example.test', 'a long enough password')).rejects.toThrow();
+		let link: string | undefined;
+		for (let i = 0; i < 50 && !link; i++) {
+			const mails = (await (await fetch(`${server.url}/dev/mail.json`)).json()) as { to: string; text: string }[];
+			link = mails.find((m) => m.to.includes('new.gaffer@example.test'))?.text.match(/https?:\/\/\S+/)?.[0];
+			if (!link) await new Promise((r) => setTimeout(r, 100));
+		}
+		expect(link).toContain('/signup/confirm/');
+		expect((await client.form(new URL(link!).pathname, {})).status).toBe(303);
 		const signedIn = await server.signIn('new.gaffer@example.test', 'a long enough password');
 		expect((await signedIn.session())?.user?.email).toBe('new.gaffer@example.test');
 	});
 
-	it('refuses a short password and a taken e-mail, keeping the form input', async () => {
+	it('refuses a short password keeping the form input, and never says whether an address is taken', async () => {
 		const client = server.anonymous();
 		const short = await client.fetch('/signup', {
 			method: 'POST',
@@ -98,18 +107,14 @@ describe('sign-up', () => {
 		expect(shortBody.type).toBe('failure');
 		expect(shortBody.status).toBe(400);
 		expect(shortBody.data).toContain('Use at least 10 characters.');
-		const taken = await client.fetch('/signup', {
-			method: 'POST',
-			headers: {
-				'content-type': 'application/x-www-form-urlencoded',
-				'x-sveltekit-action': 'true',
-				accept: 'application/json'
-			},
-			body: new URLSearchParams({ name: 'B', email: 'owner@demo.test', password: 'long enough password' })
+		expect(shortBody.data).toContain('a@example.test');
+		const taken = await client.form('/signup', {
+			name: 'B',
+			email: 'owner@demo.test',
+			password: 'long enough password'
 		});
-		const takenBody = await taken.json();
-		expect(takenBody.status).toBe(400);
-		expect(takenBody.data).toContain('already exists');
+		expect(taken.status).toBe(303);
+		expect(taken.headers.get('location')).toContain('/signin/check-email?why=signup');
 	});
 });
 

@@ -104,7 +104,7 @@ describe('projects', () => {
 });
 
 describe('members and invitations', () => {
-	it('an owner adds an existing account at once; a programmer may not', async () => {
+	it('an owner adding an existing account sends it an invitation (never joins it at once); a programmer may not', async () => {
 		const someone = await makeUser(server.db());
 		const programmer = await as('programmer');
 		expect(
@@ -117,8 +117,11 @@ describe('members and invitations', () => {
 			role: 'electrician'
 		});
 		expect(res.status).toBe(201);
-		expect(await res.json()).toMatchObject({ status: 'member', role: 'electrician' });
+		expect(await res.json()).toMatchObject({ status: 'invited', role: 'electrician' });
 		const joined = await server.signIn(someone.email!, PASSWORD);
+		expect((await joined.get(`/api/projects/${crew.project.id}`)).status).toBe(404);
+		const link = (await caughtMail(someone.email!)).text.match(/https?:\/\/\S+\/invite\/\S+/)?.[0];
+		expect((await joined.form(new URL(link!).pathname, {})).status).toBe(303);
 		expect((await joined.get(`/api/projects/${crew.project.id}`)).status).toBe(200);
 	});
 
@@ -129,14 +132,14 @@ describe('members and invitations', () => {
 		expect(res.status).toBe(201);
 		expect(await res.json()).toMatchObject({ status: 'invited', email, mailed: true });
 		const mail = await caughtMail(email);
-		expect(mail.subject).toContain(crew.project.name);
+		expect(mail.text).toContain(crew.project.name);
 		const link = mail.text.match(/https?:\/\/\S+\/invite\/\S+/)?.[0];
 		expect(link).toBeDefined();
 
 		// someone else signed in cannot use it
 		const wrong = await as('viewer');
 		const refused = await wrong.form(new URL(link!).pathname, {});
-		expect(refused.status).toBe(400);
+		expect(refused.status).toBe(403);
 
 		const invitee = await makeUser(server.db(), { email });
 		const client = await server.signIn(invitee.email!, PASSWORD);
@@ -146,7 +149,7 @@ describe('members and invitations', () => {
 		const me = await client.get(`/api/projects/${crew.project.id}`);
 		expect((await me.json()).role).toBe('programmer');
 		// used once only
-		expect((await client.form(new URL(link!).pathname, {})).status).toBe(400);
+		expect((await client.form(new URL(link!).pathname, {})).status).toBe(410);
 	});
 
 	it('the last owner cannot be demoted or removed', async () => {

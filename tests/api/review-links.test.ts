@@ -177,7 +177,11 @@ describe('review links', () => {
 			expect.objectContaining({ decision: 'approved', name: 'Pat Producer', comment: 'Go ahead' })
 		]);
 
-		const mails = await waitForMail(server, (m) => m.subject.includes('approved by Pat Producer'), 2);
+		const mails = await waitForMail(
+			server,
+			(m) => m.subject.includes('Revision 2 approved') && m.text.includes('Pat Producer'),
+			2
+		);
 		expect(mails.map((m) => m.to).sort()).toEqual(['owner@demo.test', 'programmer@demo.test']);
 		expect(mails[0].text).toContain(`${server.url}/projects/${pid}/revisions`);
 		expect(mails[0].html).toContain('Pat Producer');
@@ -206,7 +210,7 @@ describe('review links', () => {
 	it('a link can be e-mailed to the producer', async () => {
 		const link = await makeLink(owner, { revision: 2, email: 'Producer@Example.test' });
 		const [mail] = await waitForMail(server, (m) => m.to === 'producer@example.test');
-		expect(mail.subject).toContain('The Lantern Ferry');
+		expect(mail.text).toContain('The Lantern Ferry');
 		expect(mail.text).toContain(link.url);
 		expect(mail.html).toContain(link.url);
 	});

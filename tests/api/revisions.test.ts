@@ -143,7 +143,11 @@ describe('revisions', () => {
 			stale: false
 		});
 
-		const mails = await waitForMail(server, (m) => m.subject.includes('revision 2 approved by Vera Viewer'), 2);
+		const mails = await waitForMail(
+			server,
+			(m) => m.subject.includes('Revision 2 approved') && m.text.includes('Vera Viewer'),
+			2
+		);
 		expect(mails.map((m) => m.to).sort()).toEqual(['owner@demo.test', 'programmer@demo.test']);
 		for (const m of mails) {
 			expect(m.text).toContain(`${server.url}/projects/${pid}/revisions`);

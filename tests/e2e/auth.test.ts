@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { DEMO_USERS } from '../../src/lib/server/demo';
-import { demoStage, screenshot, signInPage } from './launch';
+import { demoStage, mailedLink, screenshot, signInPage } from './launch';
 
 const stage = demoStage();
 
@@ -31,14 +31,17 @@ describe('signing in through the pages (Chromium)', () => {
 		await page.close();
 	});
 
-	it('a new person signs up, then signs in, then creates a project they own', async () => {
+	it('a new person signs up, confirms by the mailed link, signs in, then creates a project they own', async () => {
 		const page = await stage.browser.page({ width: 390, height: 844 });
 		await page.goto(`${stage.server.url}/signup`);
 		await page.getByLabel('Your name').fill('Bo Bestboy');
 		await page.getByLabel('E-mail').fill('bo@crew.test');
 		await page.getByLabel('Password').fill('rigging all night');
 		await page.getByRole('button', { name: 'Create account' }).click();
-		await page.waitForURL(/registered=1/);
+		await page.waitForURL(/check-email/);
+		await page.goto(await mailedLink(stage.server.url, 'bo@crew.test', '/signup/confirm/'));
+		await page.getByRole('button', { name: 'Confirm and create my account' }).click();
+		await page.waitForURL(/confirmed=1/);
 		await page.getByLabel('Password').fill('rigging all night');
 		await page.getByRole('button', { name: 'Sign in', exact: true }).click();
 		await page.waitForURL(`${stage.server.url}/`);

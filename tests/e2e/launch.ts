@@ -92,3 +92,16 @@ export function demoStage(): { readonly server: TestServer; readonly browser: Br
 		}
 	};
 }
+
+/** The newest link to `path` in mail the local sink caught for `to` (read from /dev/mail.json). */
+export async function mailedLink(base: string, to: string, path: string): Promise<string> {
+	for (let i = 0; i < 100; i++) {
+		const mails = (await (await fetch(`${base}/dev/mail.json`)).json()) as { to: string; text: string }[];
+		for (const mail of mails) {
+			const link = mail.to.includes(to) ? mail.text.match(new RegExp(`https?://\\S+${path}\\S+`))?.[0] : undefined;
+			if (link) return link;
+		}
+		await new Promise((r) => setTimeout(r, 100));
+	}
+	throw new Error(`no mail to ${to} with a ${path} link`);
+}

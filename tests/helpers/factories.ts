@@ -13,14 +13,16 @@ export function uniqueEmail(prefix = 'user'): string {
 	return `${prefix}-${process.pid}-${++counter}-${Date.now().toString(36)}@test.example`;
 }
 
-export async function makeUser(db: Db, overrides: { email?: string; name?: string } = {}) {
+export async function makeUser(db: Db, overrides: { email?: string; name?: string; verified?: boolean } = {}) {
 	passwordHash ??= hash(PASSWORD);
 	return db
 		.insert(users)
 		.values({
 			email: overrides.email ?? uniqueEmail(),
 			name: overrides.name ?? 'Test Person',
-			passwordHash: await passwordHash
+			passwordHash: await passwordHash,
+			// as if the mailbox had been proven by the sign-up link
+			emailVerified: overrides.verified === false ? null : new Date()
 		})
 		.returning()
 		.get();

@@ -16,8 +16,7 @@ const BY_PROJECT = [
 	'revision',
 	'review_link',
 	'signoff',
-	'audit_log',
-	'mail_outbox'
+	'audit_log'
 ];
 
 export function fingerprint(db: Db, projectId: number): string {
@@ -55,5 +54,10 @@ export function fingerprint(db: Db, projectId: number): string {
 			? sql.prepare(`select * from ${table} where project_id = ? order by rowid`).all(projectId)
 			: sql.prepare(`select count(*) n from ${table}`).get();
 	}
+	// the mail a project's requests queued; not its delivery state, which the background sender
+	// changes after the answer (sent, attempts, next try)
+	dump.mail_outbox = sql
+		.prepare('select id, "to", subject, text, kind from mail_outbox where project_id = ? order by id')
+		.all(projectId);
 	return createHash('sha256').update(JSON.stringify(dump)).digest('hex');
 }

@@ -29,9 +29,3 @@ export const memberPatch = z.strictObject({
 	role: z.enum(ROLES),
 	version: z.int().positive().optional()
 });
-
-export const signUp = z.strictObject({
-	name: z.string().trim().min(1, 'Tell us your name.').max(120),
-	email: z.string().trim().toLowerCase().email('Enter an e-mail address.').max(254),
-	password: z.string().min(10, 'Use at least 10 characters.').max(200)
-});

@@ -165,7 +165,11 @@ export async function ensureDemoUsers(database: Db): Promise<Map<string, string>
 			continue;
 		}
 		hash ??= await hashPassword(DEMO_PASSWORD);
-		const row = database.insert(users).values({ email: u.email, name: u.name, passwordHash: hash }).returning().get();
+		const row = database
+			.insert(users)
+			.values({ email: u.email, name: u.name, passwordHash: hash, emailVerified: new Date() })
+			.returning()
+			.get();
 		ids.set(u.email, row.id);
 	}
 	return ids;

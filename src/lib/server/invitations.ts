@@ -1,52 +1,54 @@
-import { eq } from 'drizzle-orm';
 import { publicBaseUrl } from './config';
-import { db } from './db/index';
-import { addMember, findInvitationByHash, getProject } from './db/projects';
-import { auditLog, invitations, type Role } from './db/schema';
-import { sendMail } from './mail/outbox';
+import { findInvitationByHash, getProject } from './db/projects';
+import { acceptInvitationRow, findPendingInvitation, storeInvitation } from './db/members';
+import type { Role } from './db/schema';
+import { NotFoundError } from './errors';
+import { queueMail } from './mail/outbox';
 import { invitationMail } from './mail/templates';
+import { memberMailByAddress, memberMailBySender, throttle } from './ratelimit';
 import { hashToken, newToken } from './tokens';
 
 const INVITATION_DAYS = 14;
 
-export async function inviteMember(input: {
+/** Every new member comes in this way: an invitation mailed to the address, accepted by its owner. */
+export function inviteMember(input: {
 	projectId: number;
 	email: string;
 	role: Role;
 	invitedBy: { id: string; name: string | null; email: string };
 }) {
 	const project = getProject(input.projectId);
-	if (!project) throw new Error('project vanished');
-	const token = newToken();
+	if (!project) throw new NotFoundError('No such project.');
 	const email = input.email.trim().toLowerCase();
-	const row = db()
-		.insert(invitations)
-		.values({
-			projectId: input.projectId,
-			email,
-			role: input.role,
-			tokenHash: hashToken(token),
-			invitedBy: input.invitedBy.id,
-			expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000)
-		})
-		.returning()
-		.get();
-	db()
-		.insert(auditLog)
-		.values({
-			projectId: input.projectId,
-			userId: input.invitedBy.id,
-			action: 'member.invite',
-			entity: 'invitation',
-			entityId: String(row.id),
-			after: { email, role: input.role }
-		})
-		.run();
+	throttle('invitations', [
+		[memberMailBySender, input.invitedBy.id],
+		[memberMailByAddress, email]
+	]);
+	const token = newToken();
+	const row = storeInvitation({
+		projectId: input.projectId,
+		email,
+		role: input.role,
+		tokenHash: hashToken(token),
+		invitedBy: input.invitedBy.id,
+		expiresAt: new Date(Date.now() + INVITATION_DAYS * 86_400_000)
+	});
 	const url = `${publicBaseUrl()}/invite/${token}`;
-	const mailed = await sendMail(
-		invitationMail(email, project.name, input.role, input.invitedBy.name || input.invitedBy.email, url)
-	);
-	return { id: row.id, email, role: input.role, expiresAt: row.expiresAt.toISOString(), mailed };
+	queueMail(invitationMail(email, project.name, input.role, input.invitedBy.email, url), {
+		projectId: input.projectId,
+		kind: 'invitation'
+	});
+	return { id: row.id, email, role: input.role, expiresAt: row.expiresAt.toISOString(), mailed: true };
+}
+
+/** A fresh link for a pending invitation (the old one stops working). */
+export function resendInvitation(
+	projectId: number,
+	id: number,
+	by: { id: string; name: string | null; email: string }
+) {
+	const row = findPendingInvitation(projectId, id);
+	return inviteMember({ projectId, email: row.email, role: row.role, invitedBy: by });
 }
 
 export type InvitationCheck =
@@ -63,20 +65,7 @@ export function checkInvitation(token: string): InvitationCheck {
 	return { ok: true, invitation, projectName: project.name };
 }
 
-/** The invitation is bound to an e-mail address: only that account may use it. */
-export function acceptInvitation(token: string, user: { id: string; email: string }): InvitationCheck {
-	const check = checkInvitation(token);
-	if (!check.ok) return check;
-	if (check.invitation.email !== user.email.toLowerCase()) {
-		return {
-			ok: false,
-			reason: `This invitation is for ${check.invitation.email}; you are signed in as ${user.email}.`
-		};
-	}
-	db().transaction((tx) => {
-		tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, check.invitation.id)).run();
-		// same connection, so this joins the transaction (better-sqlite3 is synchronous)
-		addMember(check.invitation.projectId, user.id, check.invitation.role);
-	});
-	return check;
+/** Throws a domain error when the signed-in user may not take this invitation. */
+export function acceptInvitation(token: string, user: { id: string; email: string }) {
+	return acceptInvitationRow(hashToken(token), user);
 }

@@ -14,9 +14,9 @@ import {
 	type RevisionRow
 } from './db/revisions';
 import { createSignoff, signoffRecipients, type NewSignoff } from './db/signoffs';
-import { sendMail } from './mail/outbox';
+import { queueMail } from './mail/outbox';
 import { signoffMail } from './mail/templates';
-import { reviewLookupByIp, signoffByIp } from './ratelimit';
+import { memberMailByAddress, memberMailBySender, reviewLookupByIp, signoffByIp, throttle } from './ratelimit';
 import { revisionOr404 } from './revision-access';
 import type { z } from 'zod';
 import type { reviewLinkCreate } from '../schemas/revision';
@@ -88,8 +88,8 @@ export function revisionsPageUrl(projectId: number): string {
 export async function signOff(revision: RevisionRow, input: NewSignoff) {
 	const row = createSignoff(revision, input);
 	const project = getProject(revision.projectId);
-	const mails = signoffRecipients(revision.projectId).map((to) =>
-		sendMail(
+	for (const to of signoffRecipients(revision.projectId)) {
+		queueMail(
 			signoffMail(to, {
 				projectName: project?.name ?? '',
 				revision: revision.number,
@@ -98,11 +98,10 @@ export async function signOff(revision: RevisionRow, input: NewSignoff) {
 				name: row.name,
 				comment: row.comment,
 				url: revisionsPageUrl(revision.projectId)
-			})
-		).catch((err: unknown) => console.error('sign-off mail not queued', err))
-	);
-	// A slow mail server must not hold the answer: the outbox has the mail either way.
-	await Promise.race([Promise.allSettled(mails), new Promise((r) => setTimeout(r, 5000).unref())]);
+			}),
+			{ projectId: revision.projectId, kind: 'sign-off' }
+		);
+	}
 	return {
 		decision: row.decision,
 		name: row.name,
@@ -128,6 +127,13 @@ export async function issueReviewLink(
 	input: z.output<typeof reviewLinkCreate>
 ): Promise<IssuedLink> {
 	const revision = input.revision === 'latest' ? null : revisionOr404(projectId, String(input.revision));
+	// mail to an outside address is throttled per sender and per address, before anything is written
+	if (input.email) {
+		throttle('review-link mails', [
+			[memberMailBySender, user.id],
+			[memberMailByAddress, input.email.trim().toLowerCase()]
+		]);
+	}
 	const { row, token } = createReviewLink(projectId, user.id, {
 		revisionId: revision?.id ?? null,
 		expiresInDays: input.expiresInDays,
@@ -136,15 +142,17 @@ export async function issueReviewLink(
 	const url = `${publicBaseUrl()}/review/${token}`;
 	let mailed: boolean | undefined;
 	if (input.email) {
-		mailed = await sendMail(
+		queueMail(
 			reviewLinkMail(input.email, {
 				projectName: getProject(projectId)?.name ?? '',
 				revision: revision?.number ?? 'latest',
-				sentBy: user.name || user.email,
+				sentBy: user.email,
 				expiresAt: row.expiresAt,
 				url
-			})
+			}),
+			{ projectId, kind: 'review-link' }
 		);
+		mailed = true;
 	}
 	return {
 		id: row.id,

@@ -1,4 +1,5 @@
 import { redirect } from '@sveltejs/kit';
+import { safeRedirect } from '$lib/server/redirect';
 import type { PageServerLoad } from './$types';
 
 const MESSAGES: Record<string, string> = {
@@ -9,26 +10,37 @@ const MESSAGES: Record<string, string> = {
 	Configuration: 'Sign-in is not available right now.'
 };
 
-export const load: PageServerLoad = ({ locals, url }) => {
-	const callbackUrl = safeCallback(url.searchParams.get('callbackUrl'), url.origin);
-	if (locals.user) redirect(303, callbackUrl);
+function minutes(n: number): string {
+	return n === 1 ? '1 minute' : `${n} minutes`;
+}
+
+function message(url: URL): string | null {
 	const code = url.searchParams.get('error');
+	if (!code) return null;
+	const detail = url.searchParams.get('code') ?? '';
+	const tooMany = /^too-many-(\d{1,4})$/.exec(detail);
+	if (code === 'CredentialsSignin' && tooMany) {
+		return `Too many attempts for this account — try again in ${minutes(Math.max(1, Number(tooMany[1])))}.`;
+	}
+	if (code === 'TooManyLinks') {
+		const wait = Math.max(1, Math.min(9999, Number(url.searchParams.get('retry')) || 1));
+		return `Too many sign-in links asked for — try again in ${minutes(wait)}.`;
+	}
+	return MESSAGES[code] ?? 'Sign-in failed. Try again.';
+}
+
+export const load: PageServerLoad = ({ locals, url }) => {
+	const callbackUrl = safeRedirect(url.searchParams.get('callbackUrl'));
+	if (locals.user) redirect(303, callbackUrl);
+	const email = url.searchParams.get('email') ?? '';
 	return {
 		callbackUrl,
-		error: code ? (MESSAGES[code] ?? 'Sign-in failed. Try again.') : null,
-		registered: url.searchParams.get('registered') === '1',
-		email: url.searchParams.get('email') ?? ''
+		error: message(url),
+		notice: url.searchParams.has('confirmed')
+			? 'Address confirmed and account created. Sign in with your password.'
+			: url.searchParams.has('passwordSet')
+				? 'Password set. Sign in with it.'
+				: null,
+		email: email.length <= 254 ? email : ''
 	};
 };
-
-/** Only paths on this site, so a crafted link cannot bounce a user elsewhere. */
-function safeCallback(value: string | null, origin: string): string {
-	if (!value) return '/';
-	if (value.startsWith('/') && !value.startsWith('//')) return value;
-	try {
-		const parsed = new URL(value);
-		return parsed.origin === origin ? parsed.pathname + parsed.search : '/';
-	} catch {
-		return '/';
-	}
-}

@@ -13,3 +13,12 @@ export async function verifyPassword(stored: string | null, password: string): P
 		return false;
 	}
 }
+
+let dummy: Promise<string> | undefined;
+
+/** The same argon2 work as a real check, for addresses with no account or no password. Always false. */
+export async function verifyAgainstDummy(password: string): Promise<false> {
+	dummy ??= hash('no account has this password, it only spends the same time');
+	await verifyPassword(await dummy, password);
+	return false;
+}

@@ -37,8 +37,35 @@ export const users = sqliteTable('user', {
 	image: text('image'),
 	// ours: null for accounts that only ever sign in by e-mailed link
 	passwordHash: text('password_hash'),
-	createdAt: integer('created_at', { mode: 'timestamp_ms' }).default(now)
+	createdAt: integer('created_at', { mode: 'timestamp_ms' }).default(now),
+	// ours: every session carries the generation it was issued under; bumping it (sign out everywhere,
+	// password change, account removal) ends them all at the next request, cache or not
+	sessionGeneration: integer('session_generation').notNull().default(0)
 });
+
+// ours: one signed-out session (its `sid`) until the day its cookie would have expired anyway
+export const revokedSessions = sqliteTable('revoked_session', {
+	sid: text('sid').primaryKey(),
+	expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull()
+});
+
+// ours: single-use, expiring, hashed links that prove a mailbox (sign-up, setting a password)
+export const accountTokens = sqliteTable(
+	'account_token',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		email: text('email').notNull(),
+		purpose: text('purpose', { enum: ['signup', 'password'] }).notNull(),
+		tokenHash: text('token_hash').notNull().unique(),
+		// sign-up: the name and password chosen, kept until the mailbox is proven
+		name: text('name'),
+		passwordHash: text('password_hash'),
+		createdAt: createdAt(),
+		expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+		usedAt: integer('used_at', { mode: 'timestamp_ms' })
+	},
+	(t) => [index('account_token_email').on(t.email)]
+);
 
 export const accounts = sqliteTable(
 	'account',
@@ -388,13 +415,20 @@ export const mailOutbox = sqliteTable(
 		subject: text('subject').notNull(),
 		text: text('text').notNull(),
 		html: text('html').notNull(),
+		// failed: every retry over at least 48 hours failed; shown to the project's owners to resend
 		status: text('status', { enum: ['pending', 'sent', 'failed'] })
 			.notNull()
 			.default('pending'),
 		attempts: integer('attempts').notNull().default(0),
 		lastError: text('last_error'),
 		createdAt: createdAt(),
-		sentAt: integer('sent_at', { mode: 'timestamp_ms' })
+		sentAt: integer('sent_at', { mode: 'timestamp_ms' }),
+		nextAttemptAt: integer('next_attempt_at', { mode: 'timestamp_ms' }),
+		giveUpAt: integer('give_up_at', { mode: 'timestamp_ms' }),
+		// the project a mail is about, so its owners see it if it finally fails
+		// no foreign key: a deleted project must not take its mail (or its failure record) with it
+		projectId: integer('project_id'),
+		kind: text('kind').notNull().default('other')
 	},
-	(t) => [index('mail_outbox_status').on(t.status)]
+	(t) => [index('mail_outbox_status').on(t.status, t.nextAttemptAt), index('mail_outbox_project').on(t.projectId)]
 );

@@ -47,6 +47,19 @@ export function signInLinkMail(to: string, url: string): OutgoingMail {
 	});
 }
 
+/**
+ * Words a person typed (a project name, a note, a comment) quoted on a line of their own and
+ * named as theirs, so a phishing line in a project name reads as what it is. Line breaks are
+ * flattened and the length capped.
+ */
+export function sendersWords(label: string, value: string): string {
+	const flat = value
+		.replace(/[\r\n\t\u2028\u2029]+/g, ' ')
+		.trim()
+		.slice(0, 200);
+	return `${label} (written by the sender, not by Patchwright): “${flat}”`;
+}
+
 export function invitationMail(
 	to: string,
 	projectName: string,
@@ -56,12 +69,43 @@ export function invitationMail(
 ): OutgoingMail {
 	return composeMail({
 		to,
-		subject: `You are invited to ${projectName} on Patchwright`,
+		// no user-chosen text in the subject: it is what a phishing mail would lead with
+		subject: 'You are invited to a project on Patchwright',
 		lines: [
-			`${invitedBy} invited you to the project "${projectName}" as ${role}.`,
-			'Open the link, sign in or create an account with this e-mail address, and the project appears in your list.'
+			`${invitedBy} invited ${to} to a Patchwright project as ${role}.`,
+			sendersWords('Project name', projectName),
+			'Open the link, sign in (or create an account) with this e-mail address and confirm it; then the project appears in your list.',
+			'If you do not know the sender, ignore this mail: nothing happens unless you accept.'
 		],
-		action: { label: 'Join the project', url }
+		action: { label: 'See the invitation', url }
+	});
+}
+
+export function signUpMail(to: string, url: string): OutgoingMail {
+	return composeMail({
+		to,
+		subject: 'Confirm your e-mail address for Patchwright',
+		lines: [
+			'Someone (we hope you) asked to create a Patchwright account with this address.',
+			'Open the link and confirm to finish. It works once and expires in 24 hours.',
+			'If it was not you, ignore this mail: no account is made.'
+		],
+		action: { label: 'Confirm my address', url }
+	});
+}
+
+export function passwordMail(to: string, url: string, reason: 'signup' | 'reset'): OutgoingMail {
+	return composeMail({
+		to,
+		subject: 'Set your Patchwright password',
+		lines: [
+			reason === 'signup'
+				? 'Someone asked to create a Patchwright account with this address, but you already have one.'
+				: 'Someone (we hope you) asked to set a new password for your Patchwright account.',
+			'To choose a new password, open the link. It works once and expires in 1 hour.',
+			'If it was not you, ignore this mail: your password stays as it is.'
+		],
+		action: { label: 'Choose a password', url }
 	});
 }
 
@@ -80,11 +124,13 @@ export function signoffMail(
 	const verdict = input.decision === 'approved' ? 'approved' : 'asked for changes to';
 	return composeMail({
 		to,
-		subject: `${input.projectName}: revision ${input.revision} ${input.decision === 'approved' ? 'approved' : 'changes requested'} by ${input.name}`,
+		subject: `Revision ${input.revision} ${input.decision === 'approved' ? 'approved' : 'changes requested'} on Patchwright`,
 		lines: [
-			`${input.name} ${verdict} revision ${input.revision} of "${input.projectName}".`,
-			...(input.note ? [`Revision note: ${input.note}`] : []),
-			input.comment ? `Comment: ${input.comment}` : 'No comment was left.'
+			`A reviewer ${verdict} revision ${input.revision} of a project you plan.`,
+			sendersWords('Project name', input.projectName),
+			sendersWords('Reviewer’s name', input.name),
+			...(input.note ? [sendersWords('Revision note', input.note)] : []),
+			input.comment ? sendersWords('Comment', input.comment) : 'No comment was left.'
 		],
 		action: { label: 'Open the revisions', url: input.url }
 	});
@@ -97,9 +143,10 @@ export function reviewLinkMail(
 	const what = input.revision === 'latest' ? 'the latest revision' : `revision ${input.revision}`;
 	return composeMail({
 		to,
-		subject: `Please review the patch for ${input.projectName}`,
+		subject: 'Please review a lighting patch on Patchwright',
 		lines: [
-			`${input.sentBy} asks you to review ${what} of the lighting patch for "${input.projectName}".`,
+			`${input.sentBy} asks you to review ${what} of a lighting patch.`,
+			sendersWords('Project name', input.projectName),
 			'Open the link on your phone or computer; no account is needed. You can approve it or ask for changes.',
 			input.expiresAt
 				? `The link works until ${input.expiresAt.toISOString().slice(0, 10)}.`

@@ -1,5 +1,7 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { requireUser } from '$lib/server/authz';
+import { findUserById } from '$lib/server/db/users';
+import { action } from '$lib/server/forms';
 import { acceptInvitation, checkInvitation } from '$lib/server/invitations';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -8,6 +10,7 @@ export const load: PageServerLoad = ({ params, locals }) => {
 	return {
 		signedIn: !!locals.user,
 		email: locals.user?.email ?? null,
+		verified: locals.user ? !!findUserById(locals.user.id)?.emailVerified : false,
 		invitation: check.ok
 			? { projectName: check.projectName, role: check.invitation.role, email: check.invitation.email }
 			: null,
@@ -16,10 +19,9 @@ export const load: PageServerLoad = ({ params, locals }) => {
 };
 
 export const actions: Actions = {
-	default: (event) => {
+	default: action('accept', (event) => {
 		const user = requireUser(event);
-		const result = acceptInvitation(event.params.token, user);
-		if (!result.ok) return fail(400, { problem: result.reason });
-		redirect(303, `/projects/${result.invitation.projectId}`);
-	}
+		const invitation = acceptInvitation(event.params.token, user);
+		redirect(303, `/projects/${invitation.projectId}`);
+	})
 };

@@ -1,62 +1,81 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { memberInvite, memberPatch } from '$lib/schemas/project';
 import { requireRole } from '$lib/server/authz';
+import {
+	changeMemberRole,
+	handOver,
+	pendingInvitations,
+	removeProjectMember,
+	revokeInvitation
+} from '$lib/server/db/members';
+import { listMembers } from '$lib/server/db/projects';
+import { action, formValues, parseWith } from '$lib/server/forms';
+import { inviteMember, resendInvitation } from '$lib/server/invitations';
+import { failedMailForProject, resendFailedMail } from '$lib/server/mail/outbox';
 import type { Actions, PageServerLoad } from './$types';
 
-interface Member {
-	userId: string;
-	email: string | null;
-	name: string | null;
-	role: string;
-	since: string;
-}
+const userIdField = z.object({ userId: z.string().min(1).max(100) });
+const idField = z.object({ id: z.coerce.number().int().positive() });
 
-export const load: PageServerLoad = async (event) => {
-	const { role } = requireRole(event, event.params.id, 'viewer');
-	const res = await event.fetch(`/api/projects/${event.params.id}/members`);
-	const { members } = (await res.json()) as { members: Member[] };
-	return { members, canManage: role === 'owner' };
+export const load: PageServerLoad = (event) => {
+	const { projectId, role, user } = requireRole(event, event.params.id, 'viewer');
+	const owner = role === 'owner';
+	return {
+		members: listMembers(projectId),
+		me: user.id,
+		canManage: owner,
+		invitations: owner ? pendingInvitations(projectId) : [],
+		failedMail: owner
+			? failedMailForProject(projectId).map((m) => ({ ...m, createdAt: m.createdAt.toISOString() }))
+			: []
+	};
 };
 
-async function send(event: Parameters<Actions[string]>[0], path: string, method: string, body?: unknown) {
-	const res = await event.fetch(`/api/projects/${event.params.id}/members${path}`, {
-		method,
-		headers: { 'content-type': 'application/json' },
-		body: body === undefined ? undefined : JSON.stringify(body)
-	});
-	const payload = res.status === 204 ? null : await res.json();
-	return { res, payload };
-}
+const back = (id: string) => redirect(303, `/projects/${id}/members`);
 
 export const actions: Actions = {
-	invite: async (event) => {
-		requireRole(event, event.params.id, 'owner');
-		const form = await event.request.formData();
-		const values = { email: String(form.get('email') ?? ''), role: String(form.get('role') ?? 'viewer') };
-		const { res, payload } = await send(event, '', 'POST', values);
-		if (res.status !== 201) {
-			return fail(400, {
-				values,
-				message: payload?.error?.issues?.[0]?.message ?? payload?.error?.message ?? 'Could not invite.'
-			});
-		}
-		return {
-			invited: payload.status === 'invited' ? `Invitation mailed to ${values.email}.` : `${values.email} added.`
-		};
-	},
-	role: async (event) => {
-		requireRole(event, event.params.id, 'owner');
-		const form = await event.request.formData();
-		const { res, payload } = await send(event, `/${encodeURIComponent(String(form.get('userId')))}`, 'PATCH', {
-			role: String(form.get('role'))
-		});
-		if (!res.ok) return fail(400, { message: payload?.error?.message ?? 'Could not change the role.' });
-		redirect(303, `/projects/${event.params.id}/members`);
-	},
-	remove: async (event) => {
-		requireRole(event, event.params.id, 'owner');
-		const form = await event.request.formData();
-		const { res, payload } = await send(event, `/${encodeURIComponent(String(form.get('userId')))}`, 'DELETE');
-		if (!res.ok) return fail(400, { message: payload?.error?.message ?? 'Could not remove the member.' });
-		redirect(303, `/projects/${event.params.id}/members`);
-	}
+	invite: action('invite', (event, form) => {
+		const { projectId, user } = requireRole(event, event.params.id, 'owner');
+		const { email, role } = parseWith(memberInvite, formValues(form));
+		inviteMember({ projectId, email, role, invitedBy: user });
+		return { done: `Invitation mailed to ${email}. They join once they accept it.` };
+	}),
+	role: action('role', (event, form) => {
+		const { projectId, user } = requireRole(event, event.params.id, 'owner');
+		const { userId } = parseWith(userIdField, formValues(form));
+		const { role } = parseWith(memberPatch, { role: form.get('role') });
+		changeMemberRole(projectId, user.id, userId, role);
+		back(event.params.id);
+	}),
+	remove: action('remove', (event, form) => {
+		const { projectId, user } = requireRole(event, event.params.id, 'owner');
+		const { userId } = parseWith(userIdField, formValues(form));
+		removeProjectMember(projectId, user.id, userId);
+		back(event.params.id);
+	}),
+	handover: action('handover', (event, form) => {
+		const { projectId, user } = requireRole(event, event.params.id, 'owner');
+		const { userId } = parseWith(userIdField, formValues(form));
+		handOver(projectId, user.id, userId);
+		back(event.params.id);
+	}),
+	resend: action('resend', (event, form) => {
+		const { projectId, user } = requireRole(event, event.params.id, 'owner');
+		const { id } = parseWith(idField, formValues(form));
+		const sent = resendInvitation(projectId, id, user);
+		return { done: `A new invitation link went to ${sent.email}; the old link no longer works.` };
+	}),
+	revoke: action('revoke', (event, form) => {
+		const { projectId, user } = requireRole(event, event.params.id, 'owner');
+		const { id } = parseWith(idField, formValues(form));
+		revokeInvitation(projectId, user.id, id);
+		back(event.params.id);
+	}),
+	resendMail: action('resendMail', (event, form) => {
+		const { projectId } = requireRole(event, event.params.id, 'owner');
+		const { id } = parseWith(idField, formValues(form));
+		resendFailedMail(projectId, id);
+		return { done: 'The message is queued again and will be retried for another 48 hours.' };
+	})
 };
