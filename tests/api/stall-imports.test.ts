@@ -1,0 +1,109 @@
+import { eq, sql } from 'drizzle-orm';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { makeCrew, signInCrew } from '../helpers/factories';
+import { channels, makeType } from '../helpers/patch-factories';
+import { startServer, type TestServer } from '../helpers/server';
+import { fixtures, universes } from '../../src/lib/server/db/schema';
+
+// Issue 20: imports run in linear time and never stall the server; the CSV cap is 20,000 rows.
+
+let server: TestServer;
+let pid: number;
+let as: Awaited<ReturnType<typeof signInCrew>>;
+
+beforeAll(async () => {
+	server = await startServer();
+	const db = server.db();
+	const { project, crew, outsider } = await makeCrew(db);
+	pid = project.id;
+	as = await signInCrew(server, crew, outsider);
+	makeType(db, pid, { Single: channels(1) }, 'Bulk Par');
+});
+afterAll(() => server?.stop());
+
+/** `count` one-slot fixtures spread over 50 new universes, 1 slot apart (ANSI E1.11: slots 1–512). */
+function bigCsv(count: number, firstNumber = 1): string {
+	const perUniverse = Math.ceil(count / 50);
+	const lines = ['Number,Maker,Model,Mode,Universe,Address'];
+	for (let i = 0; i < count; i++)
+		lines.push(
+			`${firstNumber + i},Testworks,Bulk Par,Single,${Math.floor(i / perUniverse) + 1},${(i % perUniverse) + 1}`
+		);
+	return lines.join('\r\n');
+}
+
+function importForm(csv: string) {
+	const form = new FormData();
+	form.set('file', new Blob([csv]), 'rig.csv');
+	return form;
+}
+
+describe('large imports', () => {
+	it('a 20,000-row CSV naming 50 new universes previews and applies; health answers meanwhile', async () => {
+		const csv = bigCsv(20000);
+		const preview = as.programmer.fetch(`/api/projects/${pid}/import`, { method: 'POST', body: importForm(csv) });
+		const health = await server.anonymous().get('/api/health');
+		expect(health.status).toBe(200);
+		const p = await preview;
+		expect(p.status).toBe(200);
+		const summary = await p.json();
+		expect(summary.create).toHaveLength(20000);
+		expect(summary.universes).toHaveLength(50);
+		expect(
+			server
+				.db()
+				.select({ n: sql<number>`count(*)` })
+				.from(fixtures)
+				.where(eq(fixtures.projectId, pid))
+				.get()!.n
+		).toBe(0);
+
+		const applied = await as.programmer.fetch(`/api/projects/${pid}/import?apply=true`, {
+			method: 'POST',
+			body: importForm(csv)
+		});
+		expect(applied.status).toBe(201);
+		const db = server.db();
+		expect(
+			db
+				.select({ n: sql<number>`count(*)` })
+				.from(fixtures)
+				.where(eq(fixtures.projectId, pid))
+				.get()!.n
+		).toBe(20000);
+		expect(
+			db
+				.select({ n: sql<number>`count(*)` })
+				.from(universes)
+				.where(eq(universes.projectId, pid))
+				.get()!.n
+		).toBe(50);
+		const f = await (await as.viewer.get(`/api/projects/${pid}/patch`)).json();
+		const last = f.fixtures.find((x: { number: number }) => x.number === 20000);
+		expect(last.control).toMatchObject({ kind: 'dmx', address: 400 });
+	});
+
+	it('refuses 20,001 rows with 422 naming the cap', async () => {
+		const res = await as.programmer.fetch(`/api/projects/${pid}/import`, {
+			method: 'POST',
+			body: importForm(bigCsv(20001, 30001))
+		});
+		expect(res.status).toBe(422);
+		expect((await res.json()).error.message).toContain('at most 20000');
+	});
+
+	it('restores a JSON backup with 2,000 universes', async () => {
+		const body = {
+			format: 'patchwright-project',
+			version: 1,
+			project: { name: 'Two thousand lines' },
+			universes: Array.from({ length: 2000 }, (_, i) => ({ id: i + 1, number: i + 1, name: `L${i + 1}` }))
+		};
+		const res = await as.programmer.post('/api/projects/import-json', body);
+		expect(res.status).toBe(201);
+		const id = (await res.json()).id;
+		const list = await (await as.programmer.get(`/api/projects/${id}/universes`)).json();
+		expect(list.universes).toHaveLength(2000);
+		expect(list.universes[1999]).toMatchObject({ number: 2000, name: 'L2000' });
+	});
+});
