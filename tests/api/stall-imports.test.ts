@@ -106,4 +106,34 @@ describe('large imports', () => {
 		expect(list.universes).toHaveLength(2000);
 		expect(list.universes[1999]).toMatchObject({ number: 2000, name: 'L2000' });
 	});
+
+	it.each([
+		// WHATWG Encoding Standard windows-1252 index: é = 0xE9, ü = 0xFC
+		['Windows-1252', (t: string) => Uint8Array.from([...t].map((c) => ({ é: 0xe9, ü: 0xfc })[c] ?? c.charCodeAt(0)))],
+		// Unicode Standard §23.8: FF FE starts UTF-16LE
+		['UTF-16LE with BOM', (t: string) => Uint8Array.from([0xff, 0xfe, ...Buffer.from(t, 'utf16le')])]
+	])('reads a %s CSV as desktop spreadsheets save it', async (_, encode) => {
+		const text =
+			'Number;Label;Maker;Model;Mode;Universe;Address\r\n90001;Café Müller;Testworks;Bulk Par;Single;60;1\r\n';
+		const form = new FormData();
+		form.set('file', new Blob([new Uint8Array(encode(text))]), 'rig.csv');
+		const res = await as.programmer.fetch(`/api/projects/${pid}/import`, { method: 'POST', body: form });
+		expect(res.status).toBe(200);
+		expect((await res.json()).create[0]).toMatchObject({ number: 90001, label: 'Café Müller', patch: '60.1' });
+	});
+
+	it('asks for CSV UTF-8 when the encoding cannot be decided (never "not a CSV")', async () => {
+		const form = new FormData();
+		// 0x81 is undefined in windows-1252 and invalid as UTF-8
+		form.set(
+			'file',
+			new Blob([Uint8Array.from([...Buffer.from('Number,Label,Universe,Address\n1,'), 0x81, 0x2c, 0x31, 0x2c, 0x31])]),
+			'rig.csv'
+		);
+		const res = await as.programmer.fetch(`/api/projects/${pid}/import`, { method: 'POST', body: form });
+		expect(res.status).toBe(415);
+		const body = await res.json();
+		expect(body.error.message).toContain('CSV UTF-8');
+		expect(body.error.message).not.toContain('neither');
+	});
 });

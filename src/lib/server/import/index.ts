@@ -3,7 +3,7 @@ import { createType } from '../db/types';
 import { listTypes, type TypeShape } from '../db/patch';
 import { importCsv, type CsvSummary } from './csv';
 import { parseGdtf } from './gdtf';
-import { decodeText, sniff } from './limits';
+import { decodeSpreadsheet, sniff } from './limits';
 import type { Upload } from './multipart';
 import type { TypeCreate } from '../../schemas/type';
 
@@ -57,8 +57,9 @@ export function importUpload(
 		return { kind: 'gdtf', applied: apply, dataVersion, warnings, type: created, modes, exists };
 	}
 	if (name.endsWith('.gdtf')) throw new ApiError(415, 'This .gdtf file is not a zip archive.');
-	if (kind === 'json')
+	const decoded = decodeSpreadsheet(upload.bytes);
+	if (!decoded) throw new ApiError(415, 'The file is neither a CSV patch nor a GDTF fixture type.');
+	if (kind === 'json' || /^\s*\{/.test(decoded.text.slice(0, 64)))
 		throw new ApiError(415, 'A project backup (.json) is imported as a new project: POST /api/projects/import-json.');
-	if (kind === 'binary') throw new ApiError(415, 'The file is neither a CSV patch nor a GDTF fixture type.');
-	return importCsv(projectId, userId, decodeText(upload.bytes), apply);
+	return importCsv(projectId, userId, decoded.text, apply);
 }
