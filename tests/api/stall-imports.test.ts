@@ -137,3 +137,29 @@ describe('large imports', () => {
 		expect(body.error.message).not.toContain('neither');
 	});
 });
+
+describe('a job over its budget', () => {
+	let slow: TestServer;
+	let programmer: Awaited<ReturnType<typeof signInCrew>>['programmer'];
+	let project: number;
+	beforeAll(async () => {
+		// a 1 ms budget: every worker job runs over it, so the refusal path is exercised for real
+		slow = await startServer({ env: { PATCHWRIGHT_JOB_TIME_MS: '1' } });
+		const made = await makeCrew(slow.db());
+		project = made.project.id;
+		programmer = (await signInCrew(slow, made.crew, made.outsider)).programmer;
+	});
+	afterAll(() => slow?.stop());
+
+	it('is stopped and answered 422; the server keeps answering', async () => {
+		const res = await programmer.fetch(`/api/projects/${project}/import`, {
+			method: 'POST',
+			body: importForm(bigCsv(20000))
+		});
+		expect(res.status).toBe(422);
+		expect((await res.json()).error.code).toBe('too-slow');
+		expect((await slow.anonymous().get('/api/health')).status).toBe(200);
+		const sheet = await programmer.get(`/api/projects/${project}/sheets/patch.pdf`);
+		expect(sheet.status).toBe(422);
+	});
+});

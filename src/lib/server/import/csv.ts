@@ -241,7 +241,15 @@ function patchText(u: number | undefined, a: number | undefined): string {
 
 /** Plans and (with `apply`) writes the CSV rows; any bad row refuses the whole file with 422 naming every bad row. */
 export function importCsv(projectId: number, userId: string, text: string, apply: boolean): CsvSummary {
-	const { rows, issues, ignored } = parseCsvPatch(text);
+	return importParsedCsv(projectId, userId, parseCsvPatch(text), apply);
+}
+
+export type ParsedCsv = ReturnType<typeof parseCsvPatch>;
+
+/** The database half of importCsv, for rows parsed elsewhere (a worker thread). */
+export function importParsedCsv(projectId: number, userId: string, parsed: ParsedCsv, apply: boolean): CsvSummary {
+	const { rows, ignored } = parsed;
+	const issues = [...parsed.issues];
 	if (rows.length === 0 && issues.length === 0)
 		throw new ApiError(422, 'The CSV has a header but no fixture rows.', {
 			code: 'invalid-file',
