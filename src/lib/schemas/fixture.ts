@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import '../messages';
 import { FIXTURE_STATES } from '../vocab';
+import { keyedRecord } from './record';
 
 // Fixture bodies for the JSON API and the forms; client-safe. Checks that need
 // the database (the universe is this project's, the mode is the type's, the
@@ -13,11 +14,11 @@ const parameterKey = z.string().min(1).max(60);
 
 export const controlInput = z.discriminatedUnion('kind', [
 	z.strictObject({ kind: z.literal('dmx'), universeId: id, address }),
-	z.strictObject({ kind: z.literal('dmx-map'), universeId: id, addresses: z.record(parameterKey, address) }),
+	z.strictObject({ kind: z.literal('dmx-map'), universeId: id, addresses: keyedRecord(parameterKey, address) }),
 	z.strictObject({
 		kind: z.literal('rc'),
 		receiverId: id,
-		channels: z.record(parameterKey, z.int().min(1, 'RC channels start at 1.').max(99)).default({})
+		channels: keyedRecord(parameterKey, z.int().min(1, 'RC channels start at 1.').max(99)).default({})
 	}),
 	z.strictObject({ kind: z.literal('follow'), leaderId: id }),
 	z.strictObject({ kind: z.literal('manual') })

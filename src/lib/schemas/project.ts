@@ -9,16 +9,34 @@ const isoDate = z
 	.regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2027-03-08.')
 	.nullable();
 
-export const projectCreate = z.strictObject({
+const fields = {
 	name: z.string().trim().min(1, 'Give the project a name.').max(120),
-	venue: z.string().trim().max(200).default(''),
-	startsOn: isoDate.optional(),
-	endsOn: isoDate.optional(),
-	notes: z.string().max(5000).default(''),
-	artnetOffset: z.union([z.literal(0), z.literal(1)]).default(1)
+	venue: z.string().trim().max(200),
+	startsOn: isoDate,
+	endsOn: isoDate,
+	notes: z.string().max(5000),
+	artnetOffset: z.union([z.literal(0), z.literal(1)])
+};
+
+export const projectCreate = z.strictObject({
+	name: fields.name,
+	venue: fields.venue.default(''),
+	startsOn: fields.startsOn.optional(),
+	endsOn: fields.endsOn.optional(),
+	notes: fields.notes.default(''),
+	artnetOffset: fields.artnetOffset.default(1)
 });
 
-export const projectPatch = projectCreate.partial().extend({ version: z.int().positive() });
+// An update names only what it changes: no defaults here, or an absent field would be reset.
+export const projectPatch = z.strictObject({
+	name: fields.name.optional(),
+	venue: fields.venue.optional(),
+	startsOn: fields.startsOn.optional(),
+	endsOn: fields.endsOn.optional(),
+	notes: fields.notes.optional(),
+	artnetOffset: fields.artnetOffset.optional(),
+	version: z.int().positive()
+});
 
 export const memberInvite = z.strictObject({
 	email: z.string().trim().toLowerCase().email('Enter an e-mail address.').max(254),

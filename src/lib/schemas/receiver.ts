@@ -2,12 +2,13 @@ import { z } from 'zod';
 import '../messages';
 import { RC_PROTOCOLS, type RcProtocol } from '../vocab';
 import { defaultChannelCount } from '../patch/index';
+import { keyedRecord } from './record';
 
 // Receivers; client-safe. Channel pools per protocol follow the engine
 // (SBUS 16 + 2 digital, CRSF 16, PPM 8).
 
 /** { "3": "left stick up/down" } — keys are channel numbers. */
-export const receiverLabels = z.record(
+export const receiverLabels = keyedRecord(
 	z.string().regex(/^[1-9]\d?$/, 'Label keys are channel numbers.'),
 	z.string().trim().min(1, 'An empty label: leave the channel out instead.').max(80)
 );

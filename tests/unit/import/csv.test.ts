@@ -50,14 +50,14 @@ describe('CSV patch parsing', () => {
 		);
 	});
 
-	it('refuses more rows than the bulk fixture API takes in one go (5000)', () => {
-		const rows = Array.from({ length: 5001 }, (_, i) => `${i + 1},1,1`);
+	it('refuses more rows than one import takes (20,000, README "Limits")', () => {
+		const rows = Array.from({ length: 20001 }, (_, i) => `${i + 1},1,1`);
 		expect(() => parseCsvPatch(['number,universe,address', ...rows].join('\n'))).toThrow(
-			/5001 rows; import at most 5000/
+			/20001 rows; import at most 20000/
 		);
 		// trailing blank lines are not rows
-		expect(parseCsvPatch(['number,universe,address', ...rows.slice(0, 5000), '', ''].join('\n')).rows).toHaveLength(
-			5000
+		expect(parseCsvPatch(['number,universe,address', ...rows.slice(0, 20000), '', ''].join('\n')).rows).toHaveLength(
+			20000
 		);
 	});
 

@@ -9,8 +9,9 @@ import {
 	type FootprintProblem
 } from '../../patch/index';
 import type { FieldIssue } from '../errors';
-import { recordAudit } from './audit';
 import { DuplicateError, InUseError, InvalidError, NotFoundError, StaleVersionError } from '../errors';
+import { recordAudit, recordAuditMany } from './audit';
+import { insertMany } from './bulk';
 import { db } from './index';
 import {
 	controlColumns,
@@ -250,16 +251,32 @@ function createFixturesTx(projectId: number, userId: string, inputs: FixtureCrea
 			ctx,
 			inputs.map((f, i) => ({ number: f.number, path: many ? [i] : [] }))
 		);
-		return inputs.map((f) => {
-			const row = db()
-				.insert(fixtures)
-				.values({ projectId, ...columnsOf(f) })
-				.returning()
-				.get();
-			const shape = fixtureShape(row);
-			recordAudit({ projectId, userId, action: 'fixture.create', entity: 'fixture', entityId: row.id, after: shape });
-			return shape;
-		});
+		// one prepared statement for the batch: a 20,000-row import is 20,000 runs of it, not 20,000 queries built
+		const now = new Date();
+		const rows: FixtureRow[] = inputs.map((f) => ({
+			id: 0,
+			projectId,
+			...columnsOf(f),
+			version: 1,
+			createdAt: now,
+			updatedAt: now
+		}));
+		const ids = insertMany(
+			fixtures,
+			rows.map(({ id, ...row }) => (void id, row))
+		);
+		const shapes = rows.map((row, i) => fixtureShape({ ...row, id: ids[i] }));
+		recordAuditMany(
+			shapes.map((shape) => ({
+				projectId,
+				userId,
+				action: 'fixture.create',
+				entity: 'fixture',
+				entityId: shape.id,
+				after: shape
+			}))
+		);
+		return shapes;
 	});
 }
 

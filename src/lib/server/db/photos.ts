@@ -1,12 +1,13 @@
 import { createHash, randomBytes } from 'node:crypto';
-import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { and, asc, eq } from 'drizzle-orm';
-import { NotFoundError, TooLargeError, UnsupportedTypeError } from '../errors';
 import { uploadsDir } from '../config';
+import { NotFoundError, TooLargeError, UnsupportedTypeError } from '../errors';
+import { commitTemp, isOutOfSpace, outOfSpace, writeTemp } from '../storage';
 import { recordAudit } from './audit';
 import { db } from './index';
-import { uploads } from './schema';
+import { fixtures, uploads } from './schema';
 
 export const MAX_PHOTO_BYTES = 10 * 1024 * 1024;
 
@@ -56,7 +57,11 @@ function photoRow(projectId: number, fixtureId: number, id: number): UploadRow {
 	return row;
 }
 
-/** Writes the file first (under a random name), then the row; a failed insert removes the file. */
+/**
+ * The bytes go to a temporary file (fsynced) first; inside the transaction the fixture is checked,
+ * the row inserted and the file renamed into place, so a refused or failed write leaves neither a
+ * row without its file nor a file without its row. Each project's photos live in their own folder.
+ */
 export function addPhoto(
 	projectId: number,
 	userId: string,
@@ -67,12 +72,18 @@ export function addPhoto(
 	if (bytes.byteLength > MAX_PHOTO_BYTES) throw new TooLargeError('Photos are limited to 10 MB.');
 	const kind = sniffImage(bytes);
 	if (!kind) throw new UnsupportedTypeError('Send a JPEG, PNG or WebP image.');
-	const dir = uploadsDir();
-	mkdirSync(dir, { recursive: true });
-	const storedName = `${randomBytes(16).toString('hex')}.${kind.ext}`;
-	writeFileSync(join(dir, storedName), bytes, { flag: 'wx' });
+	const storedName = `${projectId}/${randomBytes(16).toString('hex')}.${kind.ext}`;
+	const finalPath = join(uploadsDir(), storedName);
+	const temp = writeTemp(finalPath, bytes);
 	try {
 		return db().transaction(() => {
+			// the fixture may have been deleted while the bytes were arriving
+			const fixture = db()
+				.select({ id: fixtures.id })
+				.from(fixtures)
+				.where(and(eq(fixtures.id, fixtureId), eq(fixtures.projectId, projectId)))
+				.get();
+			if (!fixture) throw new NotFoundError('No such fixture in this project; the photo was not kept.');
 			const row = db()
 				.insert(uploads)
 				.values({
@@ -89,17 +100,25 @@ export function addPhoto(
 				.get();
 			const shape = photoShape(projectId, row);
 			recordAudit({ projectId, userId, action: 'photo.add', entity: 'upload', entityId: row.id, after: shape });
+			commitTemp(temp, finalPath);
 			return shape;
 		});
 	} catch (err) {
-		rmSync(join(dir, storedName), { force: true });
+		rmSync(temp, { force: true });
+		rmSync(finalPath, { force: true });
+		if ((err as { code?: string }).code === 'SQLITE_FULL' || isOutOfSpace(err)) throw outOfSpace();
 		throw err;
 	}
 }
 
 export function readPhoto(projectId: number, fixtureId: number, id: number): { row: UploadRow; bytes: Buffer } {
 	const row = photoRow(projectId, fixtureId, id);
-	return { row, bytes: readFileSync(join(uploadsDir(), row.storedName)) };
+	try {
+		return { row, bytes: readFileSync(join(uploadsDir(), row.storedName)) };
+	} catch (err) {
+		if ((err as { code?: string }).code === 'ENOENT') throw new NotFoundError('The photo file is missing.');
+		throw err;
+	}
 }
 
 export function deletePhoto(projectId: number, userId: string, fixtureId: number, id: number): void {
@@ -121,4 +140,10 @@ export function deletePhoto(projectId: number, userId: string, fixtureId: number
 
 export function removeStoredFiles(names: string[]): void {
 	for (const n of names) rmSync(join(uploadsDir(), n), { force: true });
+}
+
+/** After a project's rows are gone: its files (old flat names too) and its photo folder. */
+export function removeProjectFiles(projectId: number, names: string[]): void {
+	removeStoredFiles(names);
+	rmSync(join(uploadsDir(), String(projectId)), { recursive: true, force: true });
 }

@@ -2,8 +2,9 @@ import { and, asc, eq, sql } from 'drizzle-orm';
 import type { Member, Project } from '../../shapes';
 import { db } from './index';
 import { recordAudit } from './audit';
-import { StaleVersionError } from './errors';
-import { invitations, memberships, projects, users, type Role } from './schema';
+import { NotFoundError, StaleVersionError } from '../errors';
+import { removeProjectFiles } from './photos';
+import { fixtures, invitations, memberships, projects, uploads, users, type Role } from './schema';
 
 export type ProjectRow = typeof projects.$inferSelect;
 
@@ -113,7 +114,8 @@ export function updateProject(
 	patch: Partial<NewProject> & { version: number }
 ): ProjectRow {
 	return db().transaction(() => {
-		const before = getProject(projectId)!;
+		const before = getProject(projectId);
+		if (!before) throw new NotFoundError('No such project.');
 		const { version, ...fields } = patch;
 		if (before.version !== version) throw new StaleVersionError(projectShape(before));
 		const after = db()
@@ -122,6 +124,8 @@ export function updateProject(
 			.where(and(eq(projects.id, projectId), eq(projects.version, version)))
 			.returning()
 			.get();
+		// another writer took this version between our read and our write
+		if (!after) throw new StaleVersionError(projectShape(getProject(projectId)!));
 		recordAudit({
 			projectId,
 			userId,
@@ -135,8 +139,38 @@ export function updateProject(
 	});
 }
 
-export function deleteProject(projectId: number): void {
-	db().delete(projects).where(eq(projects.id, projectId)).run();
+/**
+ * Everything the project owns goes in one transaction. Fixtures go first: they point at types,
+ * modes, universes, receivers and each other with RESTRICT (a single fixture delete must refuse),
+ * so the cascade from the project alone would trip them. Photo files go after the commit.
+ */
+export function deleteProject(projectId: number, userId: string): void {
+	const files = db().transaction((tx) => {
+		const before = getProject(projectId);
+		if (!before) throw new NotFoundError('No such project.');
+		const stored = tx
+			.select({ storedName: uploads.storedName })
+			.from(uploads)
+			.where(eq(uploads.projectId, projectId))
+			.all()
+			.map((u) => u.storedName);
+		tx.update(fixtures).set({ leaderId: null }).where(eq(fixtures.projectId, projectId)).run();
+		tx.delete(fixtures).where(eq(fixtures.projectId, projectId)).run();
+		// universes, types → modes → channels, receivers → labels, revisions, review links, sign-offs,
+		// memberships, invitations, uploads and the project's audit rows follow by ON DELETE CASCADE
+		tx.delete(projects).where(eq(projects.id, projectId)).run();
+		// the trail of the delete itself outlives the project (no project_id, or the cascade would take it)
+		recordAudit({
+			projectId: null,
+			userId,
+			action: 'project.delete',
+			entity: 'project',
+			entityId: projectId,
+			before: { name: before.name, photos: stored.length }
+		});
+		return stored;
+	});
+	removeProjectFiles(projectId, files);
 }
 
 export function memberRole(projectId: number, userId: string): Role | undefined {

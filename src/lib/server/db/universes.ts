@@ -1,8 +1,8 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
-import { recordAudit } from './audit';
 import { DuplicateError, InUseError, NotFoundError, StaleVersionError } from '../errors';
+import { INSERT_CHUNK, recordAudit, recordAuditMany } from './audit';
 import { db } from './index';
-import { controlColumns, loadPatchCached, universeShape } from './patch';
+import { controlColumns, loadPatchCached, universeShape, type UniverseShape } from './patch';
 import { fixtures, universes } from './schema';
 import type { UniverseCreate, UniversePatch } from '../../schemas/universe';
 
@@ -66,6 +66,39 @@ export function createUniverse(projectId: number, userId: string, input: Univers
 		return row.id;
 	});
 	return getUniverseComputed(projectId, id)!;
+}
+
+/**
+ * Many universes in one statement per chunk (imports, restores): no computed patch per row, which
+ * made a file naming N new universes cost N patch computations. Numbers must be new to the project.
+ */
+export function createUniverses(projectId: number, userId: string, inputs: UniverseCreate[]): UniverseShape[] {
+	if (inputs.length === 0) return [];
+	return db().transaction(() => {
+		const taken = new Set(
+			db()
+				.select({ number: universes.number })
+				.from(universes)
+				.where(eq(universes.projectId, projectId))
+				.all()
+				.map((u) => u.number)
+		);
+		for (const u of inputs) {
+			if (taken.has(u.number)) throw duplicate(u.number);
+			taken.add(u.number);
+		}
+		const rows: UniverseShape[] = [];
+		for (let i = 0; i < inputs.length; i += INSERT_CHUNK) {
+			const chunk = inputs.slice(i, i + INSERT_CHUNK).map((u) => ({ projectId, ...u }));
+			// RETURNING's order is unspecified; ids are handed out in insert order
+			const made = db().insert(universes).values(chunk).returning().all();
+			rows.push(...made.sort((a, b) => a.id - b.id).map(universeShape));
+		}
+		recordAuditMany(
+			rows.map((u) => ({ projectId, userId, action: 'universe.create', entity: 'universe', entityId: u.id, after: u }))
+		);
+		return rows;
+	});
 }
 
 export function updateUniverse(

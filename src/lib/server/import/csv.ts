@@ -3,9 +3,9 @@ import { DomainError, UnprocessableError } from '../errors';
 import { createFixtures, updateFixtures, type FixtureChange } from '../db/fixtures';
 import { db } from '../db/index';
 import { listFixtures, listTypes, listUniverses, loadPatch } from '../db/patch';
-import { createUniverse } from '../db/universes';
+import { createUniverses } from '../db/universes';
 import { fixtureCreate, type ControlInput, type FixtureCreate } from '../../schemas/fixture';
-import { universeCreate } from '../../schemas/universe';
+import { universeCreate, type UniverseCreate } from '../../schemas/universe';
 import type { ImportIssue } from './gdtf';
 
 // A patch spreadsheet as CSV: one row per fixture. Headers are matched loosely;
@@ -54,8 +54,8 @@ const SYNONYMS: Record<CsvField, string[]> = {
 	notes: ['notes', 'note', 'comments', 'comment', 'remarks']
 };
 
-/** the bulk fixture API's own cap: one transaction stays short enough not to stall the server */
-export const MAX_CSV_ROWS = 5000;
+/** a whole rig in one file; the import runs in multi-row statements inside one transaction */
+export const MAX_CSV_ROWS = 20000;
 
 export function normaliseHeader(h: string): string {
 	return h
@@ -239,7 +239,15 @@ function patchText(u: number | undefined, a: number | undefined): string {
 
 /** Plans and (with `apply`) writes the CSV rows; any bad row refuses the whole file with 422 naming every bad row. */
 export function importCsv(projectId: number, userId: string, text: string, apply: boolean): CsvSummary {
-	const { rows, issues, ignored } = parseCsvPatch(text);
+	return importParsedCsv(projectId, userId, parseCsvPatch(text), apply);
+}
+
+export type ParsedCsv = ReturnType<typeof parseCsvPatch>;
+
+/** The database half of importCsv, for rows parsed elsewhere (a worker thread). */
+export function importParsedCsv(projectId: number, userId: string, parsed: ParsedCsv, apply: boolean): CsvSummary {
+	const { rows, ignored } = parsed;
+	const issues = [...parsed.issues];
 	if (rows.length === 0 && issues.length === 0)
 		throw new UnprocessableError(
 			'The CSV has a header but no fixture rows.',
@@ -264,8 +272,10 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 				update: [],
 				conflicts: []
 			};
+			// universes the file names that the project lacks: checked, then created in one batch
+			const newUniverses = new Map<number, UniverseCreate>();
 			for (const r of rows) {
-				if (r.universe === undefined || universeIds.has(r.universe)) continue;
+				if (r.universe === undefined || universeIds.has(r.universe) || newUniverses.has(r.universe)) continue;
 				const u = universeCreate.safeParse({
 					number: r.universe,
 					name: `Universe ${r.universe}`,
@@ -275,13 +285,18 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 					issues.push({ row: r.row, field: 'universe', message: u.error.issues[0].message });
 					continue;
 				}
-				universeIds.set(r.universe, createUniverse(projectId, userId, u.data).id);
-				summary.universes.push({ number: r.universe, name: u.data.name, action: 'create' });
+				newUniverses.set(r.universe, u.data);
 			}
+			for (const u of createUniverses(projectId, userId, [...newUniverses.values()])) {
+				universeIds.set(u.number, u.id);
+				summary.universes.push({ number: u.number, name: u.name, action: 'create' });
+			}
+			const badRows = new Set(issues.map((i) => i.row));
+			const typeById = new Map(types.map((t) => [t.id, t]));
 			const creates: { row: CsvRow; input: FixtureCreate }[] = [];
 			const changes: { row: CsvRow; change: FixtureChange; what: string[] }[] = [];
 			for (const r of rows) {
-				if (issues.some((i) => i.row === r.row)) continue;
+				if (badRows.has(r.row)) continue;
 				const bad = (field: string, message: string) => issues.push({ row: r.row, field, message });
 				const before = existing.get(r.number);
 				let typeId: number | undefined;
@@ -337,7 +352,7 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 						continue;
 					}
 					creates.push({ row: r, input: parsed.data });
-					const t = types.find((x) => x.id === typeId)!;
+					const t = typeById.get(typeId!)!;
 					summary.create.push({
 						row: r.row,
 						number: r.number,

@@ -45,7 +45,9 @@ const PARAMETER: Record<string, string> = {
 };
 
 export function parameterFor(attribute: string): string {
-	return PARAMETER[attribute.toLowerCase()] ?? attribute;
+	// own keys only: an attribute named "constructor" must not find Object's
+	const key = attribute.toLowerCase();
+	return Object.hasOwn(PARAMETER, key) ? PARAMETER[key] : attribute;
 }
 
 /** "32768/2": a value at a byte count; rescaled to `bytes` by shifting whole bytes (GDTF DMXValue). Plain numbers are read at the channel's own resolution. */

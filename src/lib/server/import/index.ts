@@ -1,9 +1,10 @@
 import { DuplicateError, UnsupportedTypeError } from '../errors';
 import { createType } from '../db/fixture-types';
 import { listTypes, type TypeShape } from '../db/patch';
-import { importCsv, type CsvSummary } from './csv';
-import { parseGdtf } from './gdtf';
-import { decodeText, sniff } from './limits';
+import { importParsedCsv, type CsvSummary, type ParsedCsv } from './csv';
+import type { GdtfResult } from './gdtf';
+import { sniff } from './limits';
+import { runJob } from '../workers/pool';
 import type { Upload } from './multipart';
 import type { TypeCreate } from '../../schemas/type';
 
@@ -31,18 +32,22 @@ function slotsOf(channels: { offset: number | null; bits: number }[]): number {
 	return channels.reduce((n, c) => (c.offset === null ? n : Math.max(n, c.offset + c.bits / 8 - 1)), 0);
 }
 
-export function importUpload(
+/** Parsing runs in a worker thread (workers/pool.ts); only the database writes run here. */
+export async function importUpload(
 	projectId: number,
 	userId: string,
 	upload: Upload,
 	apply: boolean
-): GdtfSummary | CsvSummary {
+): Promise<GdtfSummary | CsvSummary> {
 	const kind = sniff(upload.bytes);
 	const name = upload.name.toLowerCase();
 	if (kind === 'zip') {
 		if (name && !name.endsWith('.gdtf') && !name.endsWith('.zip'))
 			throw new UnsupportedTypeError('A zip archive is read only as a GDTF fixture type (.gdtf).');
-		const { type, dataVersion, warnings } = parseGdtf(upload.bytes);
+		const { type, dataVersion, warnings } = await runJob<GdtfResult>(
+			{ kind: 'gdtf', bytes: upload.bytes },
+			'Reading the GDTF file'
+		);
 		const exists = listTypes(projectId).some(
 			(t) => t.maker.toLowerCase() === type.maker.toLowerCase() && t.model.toLowerCase() === type.model.toLowerCase()
 		);
@@ -55,10 +60,14 @@ export function importUpload(
 		return { kind: 'gdtf', applied: apply, dataVersion, warnings, type: created, modes, exists };
 	}
 	if (name.endsWith('.gdtf')) throw new UnsupportedTypeError('This .gdtf file is not a zip archive.');
-	if (kind === 'json')
+	const job = await runJob<{ decoded: { isJson: boolean } | null; parsed: ParsedCsv | null }>(
+		{ kind: 'csv', bytes: upload.bytes },
+		'Reading the CSV file'
+	);
+	if (!job.decoded) throw new UnsupportedTypeError('The file is neither a CSV patch nor a GDTF fixture type.');
+	if (kind === 'json' || job.decoded.isJson || !job.parsed)
 		throw new UnsupportedTypeError(
 			'A project backup (.json) is imported as a new project: POST /api/projects/import-json.'
 		);
-	if (kind === 'binary') throw new UnsupportedTypeError('The file is neither a CSV patch nor a GDTF fixture type.');
-	return importCsv(projectId, userId, decodeText(upload.bytes), apply);
+	return importParsedCsv(projectId, userId, job.parsed, apply);
 }

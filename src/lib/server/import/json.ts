@@ -5,7 +5,7 @@ import { db } from '../db/index';
 import { createProject, projectShape, type Project } from '../db/projects';
 import { createReceiver } from '../db/receivers';
 import { createType } from '../db/fixture-types';
-import { createUniverse } from '../db/universes';
+import { createUniverses } from '../db/universes';
 import { fixtureCreate, type FixtureCreate } from '../../schemas/fixture';
 import { projectCreate } from '../../schemas/project';
 import { receiverCreate } from '../../schemas/receiver';
@@ -92,7 +92,12 @@ export function importProjectJson(userId: string, text: string): Project {
 		const created = createProject(userId, project.data!);
 		const pid = created.id;
 		const universeMap = new Map<number, number>();
-		for (const u of universes) universeMap.set(u.id, createUniverse(pid, userId, u.data!).id);
+		const made = createUniverses(
+			pid,
+			userId,
+			universes.map((u) => u.data!)
+		);
+		universes.forEach((u, i) => universeMap.set(u.id, made[i].id));
 		const typeMap = new Map<number, number>();
 		const modeMap = new Map<number, number>();
 		for (const t of types) {

@@ -1,5 +1,6 @@
 import { Unzip, UnzipInflate } from 'fflate';
-import { InvalidError, TooLargeError, UnsupportedTypeError, type DomainError } from '../errors';
+import iconv from 'iconv-lite';
+import { DomainError, InvalidError, TooLargeError, UnsupportedTypeError } from '../errors';
 
 // Everything an upload must pass before its content is believed: a size cap,
 // content sniffing (never the file name), a zip reader that stops inflating at
@@ -165,5 +166,68 @@ export function guardXml(text: string): void {
 		throw new InvalidError('The XML declares a DOCTYPE or entities; those are refused.', undefined, {
 			code: 'xml-dtd'
 		});
+	}
+}
+
+export type TextEncoding = 'utf-8' | 'utf-16le' | 'utf-16be' | 'windows-1252';
+
+const SAVE_AS_UTF8 =
+	'The file’s text encoding could not be worked out. In your spreadsheet program choose “Save as” → “CSV UTF-8” and import that file.';
+
+// bytes Windows-1252 leaves undefined (WHATWG Encoding maps them to C1 controls no spreadsheet writes)
+const CP1252_UNDEFINED = new Set([0x81, 0x8d, 0x8f, 0x90, 0x9d]);
+
+function isControl(b: number): boolean {
+	return b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d && b !== 0x0c;
+}
+
+/** UTF-16 without a BOM: ASCII-range text puts a zero in every other byte. */
+function utf16Without(bytes: Uint8Array): 'utf-16le' | 'utf-16be' | null {
+	const n = Math.min(bytes.length - (bytes.length % 2), 4096);
+	if (n < 4) return null;
+	let evenZero = 0;
+	let oddZero = 0;
+	for (let i = 0; i < n; i += 2) {
+		if (bytes[i] === 0) evenZero++;
+		if (bytes[i + 1] === 0) oddZero++;
+	}
+	const pairs = n / 2;
+	if (oddZero > pairs * 0.6 && evenZero === 0) return 'utf-16le';
+	if (evenZero > pairs * 0.6 && oddZero === 0) return 'utf-16be';
+	return null;
+}
+
+/**
+ * The text of a spreadsheet's "CSV" in whatever encoding desktop programs write: UTF-8 (with or
+ * without BOM), UTF-16 ("Unicode text", BOM or not) or Windows-1252 (a plain "CSV" on many desks).
+ * Answers null for bytes that are not text at all; refuses (415) text it cannot decide.
+ */
+export function decodeSpreadsheet(bytes: Uint8Array): { text: string; encoding: TextEncoding } | null {
+	const undecidable = () => new UnsupportedTypeError(SAVE_AS_UTF8, { code: 'unsupported-encoding' });
+	const utf16 = (encoding: 'utf-16le' | 'utf-16be', body: Uint8Array) => {
+		if (body.length % 2 !== 0) throw undecidable();
+		const text = iconv.decode(Buffer.from(body), encoding);
+		if (text.includes('\uFFFD') || [...text.slice(0, 4096)].some((c) => isControl(c.charCodeAt(0))))
+			throw undecidable();
+		return { text, encoding };
+	};
+	if (bytes[0] === 0xff && bytes[1] === 0xfe) return utf16('utf-16le', bytes.subarray(2));
+	if (bytes[0] === 0xfe && bytes[1] === 0xff) return utf16('utf-16be', bytes.subarray(2));
+	const bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+	const body = bom ? bytes.subarray(3) : bytes;
+	if (!bom) {
+		const wide = utf16Without(body);
+		if (wide) return utf16(wide, body);
+	}
+	if (body.some(isControl)) {
+		if (bom) throw undecidable();
+		return null;
+	}
+	try {
+		return { text: new TextDecoder('utf-8', { fatal: true }).decode(body), encoding: 'utf-8' };
+	} catch {
+		// not UTF-8: a legacy single-byte file; Windows-1252 unless it holds bytes that code page lacks
+		if (bom || body.some((b) => CP1252_UNDEFINED.has(b))) throw undecidable();
+		return { text: iconv.decode(Buffer.from(body), 'windows-1252'), encoding: 'windows-1252' };
 	}
 }

@@ -4,9 +4,7 @@ import { requireRole } from '../authz';
 import { publicBaseUrl } from '../config';
 import { PAPERS, slugify, type Paper, type TitleInfo } from './common';
 import { loadSheetData, type SheetData } from './data';
-import { renderLabelSheet } from './label-sheet';
-import { renderPatchSheet } from './patch-sheet';
-import { renderRadioSheet } from './radio-sheet';
+import { runJob } from '../workers/pool';
 
 // GET …/sheets/{patch,labels,radio}.pdf. Any member may print any sheet: every
 // role may read the whole patch (DESIGN "Roles"), and a sheet shows nothing more.
@@ -86,17 +84,18 @@ export async function renderSheet(projectId: number, kind: SheetKind, query: She
 		if (query.fixtures.length === 0) throw new ApiError(400, 'Choose at least one fixture number.');
 	}
 	const title = sheetTitle(kind, data);
-	const pdf =
-		kind === 'patch'
-			? await renderPatchSheet(data.patch, title, query.paper)
-			: kind === 'radio'
-				? await renderRadioSheet(data.patch, title, query.paper)
-				: await renderLabelSheet(data.patch, title, {
-						paper: query.paper,
-						baseUrl: publicBaseUrl(),
-						projectId,
-						numbers: query.fixtures
-					});
+	// rendering runs in a worker thread: a 5,000-label sheet must not hold up anyone else's request
+	const pdf = await runJob<Uint8Array>(
+		{
+			kind: 'pdf',
+			sheet: kind,
+			patch: data.patch,
+			title,
+			paper: query.paper,
+			...(kind === 'labels' ? { labels: { baseUrl: publicBaseUrl(), projectId, numbers: query.fixtures } } : {})
+		},
+		`Printing the ${SHEET_TITLE[kind].toLowerCase()}`
+	);
 	const name = sheetFileName(kind, data.patch.project.name, data.revision?.number ?? null);
 	return new Response(new Uint8Array(pdf), {
 		headers: {

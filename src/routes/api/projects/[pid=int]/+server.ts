@@ -17,7 +17,7 @@ export const PATCH: RequestHandler = api(async (event) => {
 });
 
 export const DELETE: RequestHandler = api((event) => {
-	const { projectId } = requireRole(event, event.params.pid, 'owner');
-	deleteProject(projectId);
+	const { projectId, user } = requireRole(event, event.params.pid, 'owner');
+	deleteProject(projectId, user.id);
 	return new Response(null, { status: 204 });
 });

@@ -9,6 +9,6 @@ import type { RequestHandler } from './$types';
 export const POST: RequestHandler = api(async (event) => {
 	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
 	const upload = await readUpload(event);
-	const summary = importUpload(projectId, user.id, upload, wantsApply(event.url, upload.fields));
+	const summary = await importUpload(projectId, user.id, upload, wantsApply(event.url, upload.fields));
 	return json(summary, { status: summary.applied ? 201 : 200 });
 });

@@ -1,0 +1,71 @@
+import { ApiError } from '../api';
+import { DomainError } from '../errors';
+import { parseCsvPatch } from '../import/csv';
+import { parseGdtf } from '../import/gdtf';
+import { decodeSpreadsheet } from '../import/limits';
+import { renderLabelSheet, type LabelOptions } from '../pdf/label-sheet';
+import { renderPatchSheet } from '../pdf/patch-sheet';
+import { renderRadioSheet } from '../pdf/radio-sheet';
+import type { Paper, TitleInfo } from '../pdf/common';
+import type { PatchData } from '../db/patch';
+
+// What runs in the worker threads (pool.ts): the CPU-heavy, I/O-free steps of imports and
+// printed sheets. Plain data in, plain data out; no database here (it stays on the main thread).
+
+export type Task =
+	| { kind: 'csv'; bytes: Uint8Array }
+	| { kind: 'gdtf'; bytes: Uint8Array }
+	| {
+			kind: 'pdf';
+			sheet: 'patch' | 'labels' | 'radio';
+			patch: PatchData;
+			title: TitleInfo;
+			paper: Paper;
+			labels?: Omit<LabelOptions, 'paper'>;
+	  };
+
+/** A refusal crosses the thread boundary as data and is thrown again on the main thread. */
+export interface Refusal {
+	refused: { status: number; message: string; extra: Record<string, unknown> };
+}
+
+async function run(task: Task): Promise<unknown> {
+	switch (task.kind) {
+		case 'csv': {
+			const decoded = decodeSpreadsheet(task.bytes);
+			if (!decoded) return { decoded: null };
+			const isJson = /^\s*\{/.test(decoded.text.slice(0, 64));
+			return { decoded: { encoding: decoded.encoding, isJson }, parsed: isJson ? null : parseCsvPatch(decoded.text) };
+		}
+		case 'gdtf':
+			return parseGdtf(task.bytes);
+		case 'pdf': {
+			const pdf =
+				task.sheet === 'patch'
+					? await renderPatchSheet(task.patch, task.title, task.paper)
+					: task.sheet === 'radio'
+						? await renderRadioSheet(task.patch, task.title, task.paper)
+						: await renderLabelSheet(task.patch, task.title, { paper: task.paper, ...task.labels! });
+			return new Uint8Array(pdf.buffer, pdf.byteOffset, pdf.byteLength);
+		}
+	}
+}
+
+export default async function handle(task: Task): Promise<unknown> {
+	try {
+		return await run(task);
+	} catch (err) {
+		if (err instanceof ApiError) return { refused: { status: err.status, message: err.message, extra: err.extra } };
+		if (err instanceof DomainError) {
+			const issues = err.issues();
+			return {
+				refused: {
+					status: err.status,
+					message: err.message,
+					extra: { code: err.code, ...(issues ? { issues } : {}), ...err.extra() }
+				}
+			};
+		}
+		throw err;
+	}
+}
