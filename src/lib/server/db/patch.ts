@@ -2,6 +2,7 @@ import { asc, eq, inArray } from 'drizzle-orm';
 import {
 	computePatch,
 	defaultChannelCount,
+	breakFootprints,
 	modeSlotCount,
 	type Conflict,
 	type FixtureControl,
@@ -26,8 +27,11 @@ export type ChannelShape = ModeChannel;
 export interface ModeShape {
 	id: number;
 	name: string;
+	/** Footprint of break 1 (of the only break, for most modes). */
 	slots: number;
 	channels: ChannelShape[];
+	/** Footprint per DMX break; present only when the mode has more than one. */
+	breaks?: { dmxBreak: number; slots: number }[];
 }
 export interface TypeShape {
 	id: number;
@@ -201,7 +205,11 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 			default: c.defaultValue,
 			...(c.min != null ? { min: c.min } : {}),
 			...(c.max != null ? { max: c.max } : {}),
-			...(c.unit != null ? { unit: c.unit } : {})
+			...(c.unit != null ? { unit: c.unit } : {}),
+			...(c.dmxFrom != null ? { dmxFrom: c.dmxFrom } : {}),
+			...(c.dmxTo != null ? { dmxTo: c.dmxTo } : {}),
+			...(c.dmxBreak !== 1 ? { dmxBreak: c.dmxBreak } : {}),
+			...(c.fineOffsets != null && c.fineOffsets.length > 0 ? { fineOffsets: c.fineOffsets } : {})
 		});
 		channelsByMode.set(c.modeId, list);
 	}
@@ -209,7 +217,10 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 	for (const m of modeRows) {
 		const channels = channelsByMode.get(m.id) ?? [];
 		const list = modesByType.get(m.typeId) ?? [];
-		list.push({ id: m.id, name: m.name, slots: modeSlotCount({ id: m.id, name: m.name, channels }), channels });
+		const mode = { id: m.id, name: m.name, channels };
+		const breaks = breakFootprints(mode);
+		// a one-break mode keeps its old shape; `breaks` only appears when there is more than one
+		list.push({ ...mode, slots: modeSlotCount(mode), ...(breaks.length > 1 ? { breaks } : {}) });
 		modesByType.set(m.typeId, list);
 	}
 	return typeRows.map((t) => ({

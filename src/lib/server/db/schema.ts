@@ -189,11 +189,19 @@ export const modeChannels = sqliteTable(
 		// null: a virtual channel that takes no slot
 		offset: integer('offset'),
 		parameter: text('parameter').notNull(),
-		bits: integer('bits').$type<8 | 16 | 24>().notNull().default(8),
+		bits: integer('bits').$type<8 | 16 | 24 | 32>().notNull().default(8),
 		defaultValue: integer('default_value').notNull().default(0),
+		// physical value at the start (min) and end (max) of the DMX range; may run downward
 		min: real('min'),
 		max: real('max'),
-		unit: text('unit')
+		unit: text('unit'),
+		// DMX sub-range the physical range covers (GDTF ChannelFunction DMXFrom); null: the whole range
+		dmxFrom: integer('dmx_from'),
+		dmxTo: integer('dmx_to'),
+		// GDTF DMXBreak: which of the fixture's start addresses the offset counts from
+		dmxBreak: integer('dmx_break').notNull().default(1),
+		// JSON [slot, …]: finer bytes that do not follow the coarse one (GDTF Offset "2,9")
+		fineOffsets: text('fine_offsets', { mode: 'json' }).$type<number[]>()
 	},
 	(t) => [index('mode_channel_mode').on(t.modeId)]
 );
