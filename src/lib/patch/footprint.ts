@@ -127,7 +127,10 @@ export function resolveDmx(address: number, slotCount: number): ResolvedFootprin
 
 /** What the slot rules need from a mode, worked out once per mode rather than once per fixture. */
 export interface CompiledMode {
+	/** Footprint of break 1. */
 	slotCount: number;
+	/** Footprints of breaks 2…n; empty for a one-break mode. */
+	moreBreaks: { dmxBreak: number; slots: number }[];
 	/** Parameters with a slot, first channel of each name only, in channel order. */
 	mapped: { parameter: string; bytes: number }[];
 }
@@ -140,7 +143,8 @@ export function compileMode(mode: Mode): CompiledMode {
 		seen.add(ch.parameter);
 		mapped.push({ parameter: ch.parameter, bytes: bytesOf(ch.bits) });
 	}
-	return { slotCount: modeSlotCount(mode), mapped };
+	const moreBreaks = breakFootprints(mode).filter((b) => b.dmxBreak !== 1);
+	return { slotCount: modeSlotCount(mode), moreBreaks, mapped };
 }
 
 /** Union of each parameter's slots; a 16-bit parameter at a takes a and a + 1. */

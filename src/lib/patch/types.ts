@@ -110,7 +110,18 @@ export interface SlotRange {
 }
 
 export type ConflictKind =
-	'overlap' | 'shared' | 'linked' | 'overflow' | 'out-of-range' | 'rc-collision' | 'rc-unassigned' | 'line-overload';
+	| 'overlap'
+	| 'shared'
+	| 'linked'
+	| 'overflow'
+	| 'out-of-range'
+	| 'rc-collision'
+	| 'rc-unassigned'
+	| 'line-overload'
+	| 'follow-cycle'
+	| 'missing-leader'
+	| 'unknown-mode'
+	| 'link-mismatch';
 
 export type Severity = 'error' | 'warning' | 'info';
 

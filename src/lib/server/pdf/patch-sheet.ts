@@ -77,7 +77,8 @@ export function universeLine(u: Universe): string {
 				: 'no Art-Net port-address'
 		);
 	}
-	parts.push(`${u.slotsUsed} slots used`, `refresh ${u.refreshHz.toFixed(1)} Hz`);
+	parts.push(`highest slot ${u.slotsUsed}`, `refresh ${u.refreshText}`);
+	if (u.artnetCaution) parts.push(u.artnetCaution);
 	return parts.join(' · ');
 }
 
