@@ -4,6 +4,7 @@ import {
 	defaultChannelCount,
 	breakFootprints,
 	modeSlotCount,
+	type BreakFootprint,
 	type Conflict,
 	type FixtureControl,
 	type Mode,
@@ -79,7 +80,9 @@ export interface ReceiverShape {
 export function controlOf(f: FixtureRow): FixtureControl {
 	switch (f.controlKind) {
 		case 'dmx':
-			return { kind: 'dmx', universeId: f.universeId, address: f.address ?? 0 };
+			return f.breakAddresses != null && f.breakAddresses.length > 0
+				? { kind: 'dmx', universeId: f.universeId, address: f.address ?? 0, breaks: f.breakAddresses }
+				: { kind: 'dmx', universeId: f.universeId, address: f.address ?? 0 };
 		case 'dmx-map':
 			return { kind: 'dmx-map', universeId: f.universeId, addresses: f.addressMap ?? {} };
 		case 'rc':
@@ -96,6 +99,7 @@ export function controlColumns(control: FixtureControl) {
 	const cleared = {
 		universeId: null as number | null,
 		address: null as number | null,
+		breakAddresses: null as { dmxBreak: number; universeId: number; address: number }[] | null,
 		addressMap: null as Record<string, number> | null,
 		receiverId: null as number | null,
 		rcChannels: null as Record<string, number> | null,
@@ -103,7 +107,16 @@ export function controlColumns(control: FixtureControl) {
 	};
 	switch (control.kind) {
 		case 'dmx':
-			return { ...cleared, controlKind: 'dmx' as const, universeId: control.universeId, address: control.address };
+			return {
+				...cleared,
+				controlKind: 'dmx' as const,
+				universeId: control.universeId,
+				address: control.address,
+				breakAddresses:
+					control.breaks !== undefined && control.breaks.length > 0
+						? control.breaks.map((b) => ({ dmxBreak: b.dmxBreak, universeId: b.universeId ?? 0, address: b.address }))
+						: null
+			};
 		case 'dmx-map':
 			return {
 				...cleared,
@@ -285,7 +298,8 @@ export interface PatchData {
 	universes: (UniverseShape & PatchResult['universes'][number])[];
 	types: TypeShape[];
 	receivers: ReceiverShape[];
-	fixtures: (FixtureShape & { slots: SlotRange[]; footprint: number | null })[];
+	/** `breakSlots`: breaks 2…n of a multi-break mode, each with its universe and claimed slots. */
+	fixtures: (FixtureShape & { slots: SlotRange[]; footprint: number | null; breakSlots?: BreakFootprint[] })[];
 	conflicts: Conflict[];
 }
 
@@ -326,7 +340,8 @@ export function computeFor(
 		receivers: receiverRows,
 		fixtures: fixtureRows.map((f) => {
 			const fp = footprintById.get(f.id);
-			return { ...f, slots: fp?.ranges ?? [], footprint: fp?.footprint ?? null };
+			const base = { ...f, slots: fp?.ranges ?? [], footprint: fp?.footprint ?? null };
+			return fp?.breaks !== undefined ? { ...base, breakSlots: fp.breaks } : base;
 		}),
 		conflicts: result.conflicts
 	};

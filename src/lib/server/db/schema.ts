@@ -261,6 +261,11 @@ export const fixtures = sqliteTable(
 		controlKind: text('control_kind', { enum: CONTROL_KINDS }).notNull().default('manual'),
 		universeId: integer('universe_id').references(() => universes.id, { onDelete: 'restrict' }),
 		address: integer('address'),
+		// dmx with a multi-break mode: JSON [{ dmxBreak, universeId, address }] for breaks 2…n;
+		// universe_id and address above stay break 1, so every existing fixture is break 1 as it was
+		breakAddresses: text('break_addresses', { mode: 'json' }).$type<
+			{ dmxBreak: number; universeId: number; address: number }[]
+		>(),
 		// dmx-map: JSON { parameter: address }
 		addressMap: text('address_map', { mode: 'json' }).$type<Record<string, number>>(),
 		receiverId: integer('receiver_id').references(() => receivers.id, { onDelete: 'restrict' }),
