@@ -70,6 +70,9 @@ describe('DMX breaks through import, fixtures and the patch', () => {
 		const universe2 = patch.universes.find((u: { number: number }) => u.number === 2);
 		expect(universe2).toMatchObject({ slotsUsed: 13, slotCount: 4 });
 		expect(patch.conflicts).toEqual([]);
+		// the CSV's range column carries break 2 after break 1
+		const csv = await (await as.viewer.get(`${base()}/export.csv`)).text();
+		expect(csv.split('\r\n').find((l) => l.startsWith('1,'))).toContain('1.1–6; break 2 2.10–13');
 	});
 
 	it('refuses a break the mode does not have and a break address that runs past 512', async () => {
