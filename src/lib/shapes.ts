@@ -2,7 +2,7 @@
 // their types from here, never from `$lib/server/…`. The db layer (src/lib/server/db/*) builds
 // exactly these from rows; the API handlers and the server loads return them unchanged.
 
-import type { Conflict, ModeChannel, PatchResult, SlotRange } from './patch/index';
+import type { BreakFootprint, Conflict, ModeChannel, PatchResult, SlotRange } from './patch/index';
 import type { FixtureControl } from './patch/types';
 import type { FixtureState, RcProtocol, Role, SignoffDecision, Transport } from './vocab';
 
@@ -35,8 +35,11 @@ export type ChannelShape = ModeChannel;
 export interface ModeShape {
 	id: number;
 	name: string;
+	/** Footprint of break 1 (of the only break, for most modes). */
 	slots: number;
 	channels: ChannelShape[];
+	/** Footprint per DMX break; present only when the mode has more than one. */
+	breaks?: { dmxBreak: number; slots: number }[];
 }
 export interface TypeShape {
 	id: number;
@@ -90,7 +93,8 @@ export interface PatchData {
 	universes: UniverseWithNumbers[];
 	types: TypeShape[];
 	receivers: ReceiverShape[];
-	fixtures: (FixtureShape & { slots: SlotRange[]; footprint: number | null })[];
+	/** `breakSlots`: breaks 2…n of a multi-break mode, each with its universe and claimed slots. */
+	fixtures: (FixtureShape & { slots: SlotRange[]; footprint: number | null; breakSlots?: BreakFootprint[] })[];
 	conflicts: Conflict[];
 }
 

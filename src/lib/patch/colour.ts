@@ -87,13 +87,20 @@ export function cctToSrgb(kelvin: number, intensityPercent = 100): Rgb {
 }
 
 /**
- * HSI swatch, done as HSV: hue in degrees, saturation %, intensity % as value. A simple
- * screen swatch; a fixture's own HSI-to-emitter maths differs by maker.
+ * HSI swatch: hue in degrees and saturation % as HSV at full value, then intensity % scales the
+ * light in linear sRGB (IEC 61966-2-1 decode, scale, encode), as the CCT swatch does — so 50 % is
+ * half the light, not half the code value. A simple screen swatch; a fixture's own HSI-to-emitter
+ * maths differs by maker.
  */
 export function hsiToSrgb(hueDegrees: number, saturationPercent: number, intensityPercent: number): Rgb {
+	const k = clamp01(intensityPercent / 100);
+	return hsvFull(hueDegrees, saturationPercent).map((c) => encodeSrgb(decodeSrgb(c) * k)) as Rgb;
+}
+
+function hsvFull(hueDegrees: number, saturationPercent: number): Rgb {
 	const h = (((hueDegrees % 360) + 360) % 360) / 60;
 	const s = clamp01(saturationPercent / 100);
-	const v = clamp01(intensityPercent / 100);
+	const v = 1;
 	const c = v * s;
 	const x = c * (1 - Math.abs((h % 2) - 1));
 	const m = v - c;

@@ -20,10 +20,19 @@ export interface PatchInput {
 
 export interface FixtureFootprint {
 	fixtureId: number;
-	/** Footprint length of the mode; null when the mode is unknown. */
+	/** Footprint length of the mode (of its break 1); null when the mode is unknown. */
 	footprint: number | null;
 	universeId: number | null;
 	/** Claimed slots inside 1–512, as sorted maximal runs. */
+	ranges: SlotRange[];
+	/** Breaks 2…n of a multi-break mode, each on its own start address; absent for one break. */
+	breaks?: BreakFootprint[];
+}
+
+export interface BreakFootprint {
+	dmxBreak: number;
+	footprint: number;
+	universeId: number | null;
 	ranges: SlotRange[];
 }
 
@@ -39,21 +48,29 @@ export const UNITS_PER_LINE = 32;
 
 const SEVERITY_RANK = { error: 0, warning: 1, info: 2 } as const;
 const KIND_RANK: Record<ConflictKind, number> = {
-	'out-of-range': 0,
-	overflow: 1,
-	overlap: 2,
-	'rc-collision': 3,
-	shared: 4,
-	'rc-unassigned': 5,
-	'line-overload': 6,
-	linked: 7
+	'unknown-mode': 0,
+	'missing-leader': 1,
+	'follow-cycle': 2,
+	'out-of-range': 3,
+	overflow: 4,
+	overlap: 5,
+	'rc-collision': 6,
+	shared: 7,
+	'link-mismatch': 8,
+	'rc-unassigned': 9,
+	'line-overload': 10,
+	linked: 11
 };
 const SEVERITY: Record<ConflictKind, Conflict['severity']> = {
+	'unknown-mode': 'error',
+	'missing-leader': 'error',
+	'follow-cycle': 'error',
 	'out-of-range': 'error',
 	overflow: 'error',
 	overlap: 'error',
 	'rc-collision': 'error',
 	shared: 'warning',
+	'link-mismatch': 'warning',
 	'rc-unassigned': 'warning',
 	'line-overload': 'warning',
 	linked: 'info'
@@ -116,6 +133,8 @@ export function analysePatch(
 	const footprints: FixtureFootprint[] = [];
 	const claims: Claim[] = [];
 	const claimFixture: PatchFixture[] = [];
+	// Per claim: its DMX break and start address, so stacking compares like with like.
+	const claimBreak: number[] = [];
 	const unitsOn = new Int32Array(universes.length);
 	const rcFixtures: PatchFixture[] = [];
 	const followers: PatchFixture[] = [];
@@ -131,6 +150,13 @@ export function analysePatch(
 				}
 			: undefined;
 		if (entry !== undefined) footprints.push(entry);
+		if (mode === undefined) {
+			add(
+				'unknown-mode',
+				[f],
+				`Fixture ${f.number} uses mode id ${f.modeId}, which its type does not have, so it claims no slots — choose a mode.`
+			);
+		}
 		if (c.kind !== 'dmx' && c.kind !== 'dmx-map') {
 			if (c.kind === 'rc') rcFixtures.push(f);
 			else if (c.kind === 'follow') followers.push(f);
@@ -155,7 +181,37 @@ export function analysePatch(
 		if (resolved.runs.length > 0) {
 			claims.push({ universe: ui, runs: resolved.runs });
 			claimFixture.push(f);
+			claimBreak.push(1);
 		}
+		if (c.kind !== 'dmx' || mode.moreBreaks.length === 0) continue;
+		// GDTF DMX breaks: each further break starts at its own universe and address (DIN SPEC 15800 DMX mode)
+		const more: BreakFootprint[] = [];
+		for (const { dmxBreak, slots } of mode.moreBreaks) {
+			const b = c.breaks?.find((x) => x.dmxBreak === dmxBreak);
+			const bf: BreakFootprint = { dmxBreak, footprint: slots, universeId: b?.universeId ?? null, ranges: [] };
+			more.push(bf);
+			const bi = b === undefined || b.universeId === null ? undefined : universeIndex.get(b.universeId);
+			if (b === undefined || bi === undefined) {
+				add(
+					'out-of-range',
+					[f],
+					b === undefined || b.universeId === null
+						? `Fixture ${f.number} has no universe and address for DMX break ${dmxBreak} (${slots} slots) — give it one.`
+						: `Fixture ${f.number} puts DMX break ${dmxBreak} on universe id ${b.universeId}, which is not in this project — choose another.`
+				);
+				continue;
+			}
+			if (bi !== ui) unitsOn[bi]++;
+			const r = resolveDmx(b.address, slots);
+			for (const p of r.problems) reportFootprint(add, f, universes[bi], slots, p, dmxBreak);
+			bf.ranges = r.runs;
+			if (r.runs.length > 0) {
+				claims.push({ universe: bi, runs: r.runs });
+				claimFixture.push(f);
+				claimBreak.push(dmxBreak);
+			}
+		}
+		if (entry !== undefined) entry.breaks = more;
 	}
 
 	const sameLayout = (a: number, b: number): boolean => {
@@ -163,8 +219,9 @@ export function analysePatch(
 		const fb = claimFixture[b];
 		const ca = fa.control;
 		const cb = fb.control;
-		if (fa.modeId !== fb.modeId || fa.typeId !== fb.typeId) return false;
-		if (ca.kind === 'dmx' && cb.kind === 'dmx') return ca.address === cb.address;
+		if (fa === fb || fa.modeId !== fb.modeId || fa.typeId !== fb.typeId || claimBreak[a] !== claimBreak[b])
+			return false;
+		if (ca.kind === 'dmx' && cb.kind === 'dmx') return claims[a].runs[0].start === claims[b].runs[0].start;
 		if (ca.kind !== 'dmx-map' || cb.kind !== 'dmx-map') return false;
 		const mode = modes.get(fa.modeId);
 		if (mode === undefined) return false;
@@ -176,10 +233,19 @@ export function analysePatch(
 	const swept = sweep(claims, sameLayout);
 	for (const { a, b, slots } of swept.overlaps) {
 		const u = universes[claims[a].universe];
+		const what = `${slots.length === 1 ? 'slot' : 'slots'} ${formatSlots(slots)} of universe ${u.number}`;
+		const fa = claimFixture[a];
+		const fb = claimFixture[b];
+		const nameOf = (ci: number) =>
+			claimBreak[ci] === 1 && !hasBreaks(claimFixture[ci])
+				? `${claimFixture[ci].number}`
+				: `${claimFixture[ci].number} (break ${claimBreak[ci]})`;
 		add(
 			'overlap',
-			[claimFixture[a], claimFixture[b]],
-			`Fixtures ${claimFixture[a].number} and ${claimFixture[b].number} both claim ${slots.length === 1 ? 'slot' : 'slots'} ${formatSlots(slots)} of universe ${u.number} — move one.`,
+			fa === fb ? [fa] : [fa, fb],
+			fa === fb
+				? `Fixture ${fa.number} puts DMX breaks ${claimBreak[a]} and ${claimBreak[b]} on the same ${what} — move one break.`
+				: `Fixtures ${nameOf(a)} and ${nameOf(b)} both claim ${what} — move one.`,
 			{ universeId: u.id, slots }
 		);
 	}
@@ -205,6 +271,8 @@ export function analysePatch(
 	}
 
 	checkRc(rcFixtures, modes, input.receivers ?? [], add);
+	checkFollows(followers, fixtures, add);
+	checkLinkGroups(fixtures, universes, universeIndex, add);
 	checkLines(followers, fixtures, universes, universeIndex, unitsOn, add);
 
 	const numberOf = (id: number): number => numbers.get(id) ?? 0;
@@ -222,8 +290,107 @@ export function findConflicts(input: PatchInput): Conflict[] {
 
 type Add = (kind: ConflictKind, on: readonly PatchFixture[], message: string, extra?: Partial<Conflict>) => void;
 
-function reportFootprint(add: Add, f: PatchFixture, u: Universe, footprint: number, p: FootprintProblem): void {
-	const at = `universe ${u.number}`;
+function hasBreaks(f: PatchFixture): boolean {
+	return f.control.kind === 'dmx' && f.control.breaks !== undefined && f.control.breaks.length > 0;
+}
+
+/**
+ * A follower is daisy-chained behind its leader (common practice): the leader must exist, and a
+ * chain of followers must end at a fixture that is addressed, not loop back on itself.
+ */
+function checkFollows(followers: readonly PatchFixture[], fixtures: readonly PatchFixture[], add: Add): void {
+	if (followers.length === 0) return;
+	const byId = new Map<number, PatchFixture>();
+	for (const f of fixtures) byId.set(f.id, f);
+	const reported = new Set<number>();
+	for (const f of followers) {
+		if (f.control.kind !== 'follow') continue;
+		const leader = byId.get(f.control.leaderId);
+		if (leader === undefined) {
+			add(
+				'missing-leader',
+				[f],
+				`Fixture ${f.number} follows fixture id ${f.control.leaderId}, which is not in this project — choose a leader or give it its own address.`
+			);
+			continue;
+		}
+		if (reported.has(f.id)) continue;
+		// Walk the chain; a cycle is reported once, naming every fixture on it.
+		const path: PatchFixture[] = [];
+		const at = new Map<number, number>();
+		let cur: PatchFixture | undefined = f;
+		while (cur !== undefined && cur.control.kind === 'follow' && !at.has(cur.id) && !reported.has(cur.id)) {
+			at.set(cur.id, path.length);
+			path.push(cur);
+			cur = byId.get(cur.control.leaderId);
+		}
+		if (cur === undefined || !at.has(cur.id)) continue;
+		const cycle = path.slice(at.get(cur.id));
+		for (const c of cycle) reported.add(c.id);
+		const sorted = [...cycle].sort(byNumber);
+		add(
+			'follow-cycle',
+			sorted,
+			cycle.length === 1
+				? `Fixture ${f.number} follows itself, so nothing drives it — give it a leader or its own address.`
+				: `Fixtures ${listNumbers(sorted)} follow each other in a circle, so nothing drives them — give one of them its own address.`
+		);
+	}
+}
+
+/** Members of a link group move as one, so they must share universe, address and mode (DESIGN "Link groups"). */
+function checkLinkGroups(
+	fixtures: readonly PatchFixture[],
+	universes: readonly Universe[],
+	universeIndex: ReadonlyMap<number, number>,
+	add: Add
+): void {
+	const groups = new Map<string, PatchFixture[]>();
+	for (const f of fixtures) {
+		if (f.linkGroup === null) continue;
+		const g = groups.get(f.linkGroup);
+		if (g === undefined) groups.set(f.linkGroup, [f]);
+		else g.push(f);
+	}
+	const universeOf = (f: PatchFixture): string => {
+		const c = f.control;
+		if (c.kind !== 'dmx' && c.kind !== 'dmx-map') return c.kind;
+		const ui = c.universeId === null ? undefined : universeIndex.get(c.universeId);
+		return ui === undefined ? 'no universe' : `universe ${universes[ui].number}`;
+	};
+	const addressOf = (f: PatchFixture): string => {
+		const c = f.control;
+		if (c.kind === 'dmx') return `address ${c.address}`;
+		if (c.kind === 'dmx-map') return `addresses ${JSON.stringify(c.addresses)}`;
+		if (c.kind === 'follow') return `leader ${c.leaderId}`;
+		return c.kind === 'rc' ? `receiver ${c.receiverId}` : '';
+	};
+	for (const [name, on] of groups) {
+		if (on.length < 2) continue;
+		const diffs: string[] = [];
+		const first = on[0];
+		if (on.some((f) => f.typeId !== first.typeId || f.modeId !== first.modeId)) diffs.push('mode');
+		if (on.some((f) => universeOf(f) !== universeOf(first))) diffs.push('universe');
+		if (on.some((f) => addressOf(f) !== addressOf(first))) diffs.push('address');
+		if (diffs.length === 0) continue;
+		const list = on.map((f) => `${f.number}: ${universeOf(f)} ${addressOf(f)}`.trim()).join('; ');
+		add(
+			'link-mismatch',
+			on,
+			`Link group "${name}" has fixtures ${listNumbers(on)} that differ in ${diffs.join(' and ')} (${list}) — linked fixtures share universe, address and mode; make them match or take one out of the group.`
+		);
+	}
+}
+
+function reportFootprint(
+	add: Add,
+	f: PatchFixture,
+	u: Universe,
+	footprint: number,
+	p: FootprintProblem,
+	dmxBreak = 1
+): void {
+	const at = dmxBreak === 1 ? `universe ${u.number}` : `universe ${u.number} (DMX break ${dmxBreak})`;
 	if (p.kind === 'self-overlap') {
 		add(
 			'overlap',

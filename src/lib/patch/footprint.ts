@@ -1,25 +1,53 @@
-import type { Bits, DmxControl, DmxMapControl, Mode, SlotRange } from './types';
+import type { Bits, DmxControl, DmxMapControl, Mode, ModeChannel, SlotRange } from './types';
 
 // ANSI E1.11: a DMX512 universe carries 512 data slots after the start code.
 export const UNIVERSE_SLOTS = 512;
 
-/** Slots one channel occupies: 8-bit 1, 16-bit coarse + fine 2, 24-bit 3. */
+/** Slots one channel occupies: 8-bit 1, 16-bit coarse + fine 2, 24-bit 3, 32-bit 4. */
 export function bytesOf(bits: Bits): number {
 	return bits >> 3;
 }
 
+/** The DMX break a channel sits on (GDTF DMXChannel DMXBreak, default 1). */
+export function breakOf(ch: Pick<ModeChannel, 'dmxBreak'>): number {
+	return ch.dmxBreak ?? 1;
+}
+
+/** Offsets of every byte of a channel, most significant first (GDTF DMXChannel Offset); [] when virtual. */
+export function channelOffsets(ch: Pick<ModeChannel, 'offset' | 'bits' | 'fineOffsets'>): number[] {
+	if (ch.offset === null) return [];
+	if (ch.fineOffsets !== undefined && ch.fineOffsets.length > 0) return [ch.offset, ...ch.fineOffsets];
+	const out: number[] = [];
+	for (let i = 0; i < bytesOf(ch.bits); i++) out.push(ch.offset + i);
+	return out;
+}
+
+/** The mode's breaks in ascending order; a mode always has break 1 (it may be empty). */
+export function modeBreaks(mode: Pick<Mode, 'channels'>): number[] {
+	const set = new Set<number>([1]);
+	for (const ch of mode.channels) if (ch.offset !== null) set.add(breakOf(ch));
+	return [...set].sort((a, b) => a - b);
+}
+
 /**
- * Footprint length: from offset 1 to the last slot of the highest channel. Gaps still belong
- * to the footprint (the fixture reads them); virtual channels (offset null) take none.
+ * Footprint length of one break: from offset 1 to its highest used slot. Gaps still belong to the
+ * footprint (the fixture reads them); virtual channels (offset null) take none. Break 1 keeps the
+ * stored length (reserved trailing slots).
  */
-export function modeSlotCount(mode: Mode): number {
+export function modeSlotCount(mode: Mode, dmxBreak = 1): number {
 	let last = 0;
 	for (const ch of mode.channels) {
-		if (ch.offset === null) continue;
-		const end = ch.offset + bytesOf(ch.bits) - 1;
+		if (ch.offset === null || (ch.dmxBreak ?? 1) !== dmxBreak) continue;
+		let end = ch.offset + bytesOf(ch.bits) - 1;
+		if (ch.fineOffsets !== undefined && ch.fineOffsets.length > 0) end = Math.max(ch.offset, ...ch.fineOffsets);
 		if (end > last) last = end;
 	}
-	return Math.max(last, mode.slots ?? 0);
+	return dmxBreak === 1 ? Math.max(last, mode.slots ?? 0) : last;
+}
+
+/** Footprint per break, e.g. [{ dmxBreak: 1, slots: 24 }, { dmxBreak: 2, slots: 8 }]. */
+export function breakFootprints(mode: Mode): { dmxBreak: number; slots: number }[] {
+	return modeBreaks(mode).map((b) => ({ dmxBreak: b, slots: modeSlotCount(mode, b) }));
 }
 
 export interface ParameterSlots {
@@ -27,19 +55,34 @@ export interface ParameterSlots {
 	bits: Bits;
 	/** Slots in byte order (coarse first); empty for a virtual channel or a missing map entry. */
 	slots: number[];
+	/** The break the slots are on (its universe is the control's break entry); absent for break 1. */
+	dmxBreak?: number;
+}
+
+/** Start address of a break of a DMX control: break 1 is `address`, others come from `breaks`. */
+export function startOf(control: DmxControl, dmxBreak: number): number | undefined {
+	if (dmxBreak === 1) return control.address;
+	return control.breaks?.find((b) => b.dmxBreak === dmxBreak)?.address;
 }
 
 /** Which slots each parameter uses — for the universe map's "hover names the slot". */
 export function parameterSlots(control: DmxControl | DmxMapControl, mode: Mode): ParameterSlots[] {
 	const out: ParameterSlots[] = [];
 	for (const ch of mode.channels) {
-		let first: number | undefined;
-		if (ch.offset !== null) {
-			first = control.kind === 'dmx' ? control.address + ch.offset - 1 : own(control.addresses, ch.parameter);
-		}
 		const slots: number[] = [];
-		if (first !== undefined) for (let i = 0; i < bytesOf(ch.bits); i++) slots.push(first + i);
-		out.push({ parameter: ch.parameter, bits: ch.bits, slots });
+		if (ch.offset !== null && control.kind === 'dmx') {
+			const start = startOf(control, breakOf(ch));
+			if (start !== undefined) for (const o of channelOffsets(ch)) slots.push(start + o - 1);
+		} else if (ch.offset !== null && control.kind === 'dmx-map') {
+			const first = own(control.addresses, ch.parameter);
+			if (first !== undefined) for (let i = 0; i < bytesOf(ch.bits); i++) slots.push(first + i);
+		}
+		const brk = breakOf(ch);
+		out.push(
+			brk === 1
+				? { parameter: ch.parameter, bits: ch.bits, slots }
+				: { parameter: ch.parameter, bits: ch.bits, slots, dmxBreak: brk }
+		);
 	}
 	return out;
 }
@@ -84,7 +127,10 @@ export function resolveDmx(address: number, slotCount: number): ResolvedFootprin
 
 /** What the slot rules need from a mode, worked out once per mode rather than once per fixture. */
 export interface CompiledMode {
+	/** Footprint of break 1. */
 	slotCount: number;
+	/** Footprints of breaks 2…n; empty for a one-break mode. */
+	moreBreaks: { dmxBreak: number; slots: number }[];
 	/** Parameters with a slot, first channel of each name only, in channel order. */
 	mapped: { parameter: string; bytes: number }[];
 }
@@ -97,7 +143,8 @@ export function compileMode(mode: Mode): CompiledMode {
 		seen.add(ch.parameter);
 		mapped.push({ parameter: ch.parameter, bytes: bytesOf(ch.bits) });
 	}
-	return { slotCount: modeSlotCount(mode), mapped };
+	const moreBreaks = breakFootprints(mode).filter((b) => b.dmxBreak !== 1);
+	return { slotCount: modeSlotCount(mode), moreBreaks, mapped };
 }
 
 /** Union of each parameter's slots; a 16-bit parameter at a takes a and a + 1. */

@@ -32,3 +32,25 @@ export function dmxFrameTiming(slots: number, options: FrameOptions = {}): Frame
 	const frameUs = Math.max(breakUs + mabUs + (slots + 1) * SLOT_US, MIN_BREAK_TO_BREAK_US);
 	return { slots, frameUs, rateHz: 1e6 / frameUs };
 }
+
+export interface RefreshFigures {
+	/** Highest used slot: where a frame may stop. */
+	highestSlot: number;
+	/** Best case: the transmitter stops each frame after the highest used slot. */
+	bestHz: number;
+	/** A transmitter that always sends all 512 slots (E1.11 full frame: about 44 Hz). */
+	fullHz: number;
+	/** "up to 830 Hz if the transmitter sends 24 slots; 44 Hz at 512" */
+	text: string;
+}
+
+/** Both refresh figures of a universe: many transmitters send all 512 slots whatever is patched. */
+export function refreshFigures(highestSlot: number): RefreshFigures {
+	const bestHz = dmxFrameTiming(highestSlot).rateHz;
+	const fullHz = dmxFrameTiming(512).rateHz;
+	const text =
+		highestSlot >= 512
+			? `${Math.floor(fullHz)} Hz at 512 slots`
+			: `up to ${Math.floor(bestHz)} Hz if the transmitter sends ${highestSlot} slot${highestSlot === 1 ? '' : 's'}; ${Math.floor(fullHz)} Hz at 512`;
+	return { highestSlot, bestHz, fullHz, text };
+}

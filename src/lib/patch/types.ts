@@ -1,6 +1,7 @@
 // Engine input shapes: the DESIGN.md "Shapes" in camelCase, narrowed to what the engine reads.
 
-export type Bits = 8 | 16 | 24;
+// GDTF DMXChannel Offset lists any number of bytes; 32-bit is the widest kept (DIN SPEC 15800 DMX channel).
+export type Bits = 8 | 16 | 24 | 32;
 
 export type { RcProtocol, Transport } from '../vocab';
 import type { RcProtocol, Transport } from '../vocab';
@@ -11,10 +12,23 @@ export interface ModeChannel {
 	parameter: string;
 	bits: Bits;
 	default: number;
-	/** Physical range (e.g. 2000–10000 K, 0–360°) that the DMX range maps onto. */
+	/**
+	 * Physical range (e.g. 2000–10000 K, 0–360°) that the DMX range maps onto: `min` is the value at
+	 * the range's first DMX value and `max` at its last, so a range may run downward (10000 → 2000 K).
+	 */
 	min?: number;
 	max?: number;
 	unit?: string;
+	/** DMX sub-range the physical range covers (GDTF ChannelFunction DMXFrom); whole range when absent. */
+	dmxFrom?: number;
+	dmxTo?: number;
+	/** DMX break the channel sits on (GDTF DMXChannel DMXBreak); 1 when absent. */
+	dmxBreak?: number;
+	/**
+	 * Slots of the finer bytes, most significant first, when they do not follow the coarse byte
+	 * (GDTF DMXChannel Offset "2,9"); absent when the bytes are adjacent.
+	 */
+	fineOffsets?: readonly number[];
 }
 
 export interface Mode {
@@ -25,10 +39,20 @@ export interface Mode {
 	slots?: number;
 }
 
-export interface DmxControl {
-	kind: 'dmx';
+/** Where a further DMX break of a fixture starts (break 1 is the control's own universe and address). */
+export interface BreakAddress {
+	dmxBreak: number;
 	universeId: number | null;
 	address: number;
+}
+
+export interface DmxControl {
+	kind: 'dmx';
+	/** Universe and start address of break 1. */
+	universeId: number | null;
+	address: number;
+	/** Breaks 2…n of a multi-break mode; absent for the usual one-break mode. */
+	breaks?: readonly BreakAddress[];
 }
 
 export interface DmxMapControl {
@@ -85,7 +109,18 @@ export interface SlotRange {
 }
 
 export type ConflictKind =
-	'overlap' | 'shared' | 'linked' | 'overflow' | 'out-of-range' | 'rc-collision' | 'rc-unassigned' | 'line-overload';
+	| 'overlap'
+	| 'shared'
+	| 'linked'
+	| 'overflow'
+	| 'out-of-range'
+	| 'rc-collision'
+	| 'rc-unassigned'
+	| 'line-overload'
+	| 'follow-cycle'
+	| 'missing-leader'
+	| 'unknown-mode'
+	| 'link-mismatch';
 
 export type Severity = 'error' | 'warning' | 'info';
 

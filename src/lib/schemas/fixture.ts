@@ -12,8 +12,25 @@ const id = z.int().positive();
 const address = z.int().min(1, 'Addresses are 1–512.').max(512, 'Addresses are 1–512.');
 const parameterKey = z.string().min(1).max(60);
 
+// GDTF DMX breaks 2…n of a multi-break mode, each with its own universe and start address
+// (DIN SPEC 15800 DMX mode); break 1 is the control's own universeId and address.
+export const breakAddressInput = z.strictObject({
+	dmxBreak: z.int().min(2, "Break 1 is the fixture's own universe and address; list breaks from 2.").max(64),
+	universeId: id,
+	address
+});
+
 export const controlInput = z.discriminatedUnion('kind', [
-	z.strictObject({ kind: z.literal('dmx'), universeId: id, address }),
+	z.strictObject({
+		kind: z.literal('dmx'),
+		universeId: id,
+		address,
+		breaks: z
+			.array(breakAddressInput)
+			.max(63)
+			.refine((bs) => new Set(bs.map((b) => b.dmxBreak)).size === bs.length, 'Each DMX break is listed once.')
+			.optional()
+	}),
 	z.strictObject({ kind: z.literal('dmx-map'), universeId: id, addresses: keyedRecord(parameterKey, address) }),
 	z.strictObject({
 		kind: z.literal('rc'),

@@ -10,18 +10,32 @@ export const channelInput = z.strictObject({
 	// null: a virtual channel that takes no slot
 	offset: z.int().min(1, 'Channel offsets start at 1.').max(SLOTS_PER_UNIVERSE).nullable(),
 	parameter: z.string().trim().min(1, 'Name the parameter.').max(60),
-	bits: z.union([z.literal(8), z.literal(16), z.literal(24)], { message: 'Bits are 8, 16 or 24.' }),
+	bits: z.union([z.literal(8), z.literal(16), z.literal(24), z.literal(32)], {
+		message: 'Bits are 8, 16, 24 or 32.'
+	}),
 	default: z.int().min(0).default(0),
+	// min is the physical value at the start of the DMX range, max at its end; min > max runs downward
 	min: z.number().finite().optional(),
 	max: z.number().finite().optional(),
-	unit: z.string().trim().max(20).optional()
+	unit: z.string().trim().max(20).optional(),
+	// DMX sub-range the physical range covers, at the channel's resolution (GDTF ChannelFunction DMXFrom)
+	dmxFrom: z.int().min(0).optional(),
+	dmxTo: z.int().min(0).optional(),
+	// GDTF DMXChannel DMXBreak: which of the fixture's start addresses the offset counts from
+	dmxBreak: z.int().min(1, 'DMX breaks start at 1.').max(64).optional(),
+	// slots of the finer bytes when they do not follow the coarse byte (GDTF Offset "2,9")
+	fineOffsets: z.array(z.int().min(1).max(SLOTS_PER_UNIVERSE)).max(3).optional()
 });
 
-function slotsOf(offset: number, bits: number): number[] {
+function slotsOf(ch: ChannelInput): number[] {
+	if (ch.offset === null) return [];
+	if (ch.fineOffsets && ch.fineOffsets.length > 0) return [ch.offset, ...ch.fineOffsets];
 	const out: number[] = [];
-	for (let i = 0; i < bits / 8; i++) out.push(offset + i);
+	for (let i = 0; i < ch.bits / 8; i++) out.push(ch.offset + i);
 	return out;
 }
+
+export type ChannelInput = z.output<typeof channelInput>;
 
 export const modeInput = z
 	.strictObject({
@@ -30,7 +44,8 @@ export const modeInput = z
 		channels: z.array(channelInput).max(512)
 	})
 	.superRefine((mode, ctx) => {
-		const owner = new Map<number, string>();
+		// one slot map per DMX break: break 2's slot 1 is not break 1's slot 1
+		const owners = new Map<number, Map<number, string>>();
 		const names = new Set<string>();
 		mode.channels.forEach((ch, i) => {
 			if (names.has(ch.parameter)) {
@@ -48,11 +63,33 @@ export const modeInput = z
 					message: `A ${ch.bits}-bit default is 0–${2 ** ch.bits - 1}.`
 				});
 			}
-			if (ch.min !== undefined && ch.max !== undefined && ch.min > ch.max) {
-				ctx.addIssue({ code: 'custom', path: ['channels', i, 'min'], message: 'min is above max.' });
+			if (ch.dmxFrom !== undefined && ch.dmxTo !== undefined && ch.dmxFrom > ch.dmxTo) {
+				ctx.addIssue({
+					code: 'custom',
+					path: ['channels', i, 'dmxFrom'],
+					message: 'The DMX range starts above its end.'
+				});
+			}
+			if (ch.dmxTo !== undefined && ch.dmxTo > 2 ** ch.bits - 1) {
+				ctx.addIssue({
+					code: 'custom',
+					path: ['channels', i, 'dmxTo'],
+					message: `A ${ch.bits}-bit DMX range ends at ${2 ** ch.bits - 1} at most.`
+				});
+			}
+			if (ch.fineOffsets !== undefined && ch.fineOffsets.length > 0 && ch.fineOffsets.length !== ch.bits / 8 - 1) {
+				ctx.addIssue({
+					code: 'custom',
+					path: ['channels', i, 'fineOffsets'],
+					message: `A ${ch.bits}-bit channel has ${ch.bits / 8 - 1} finer bytes.`
+				});
+				return;
 			}
 			if (ch.offset === null) return;
-			for (const s of slotsOf(ch.offset, ch.bits)) {
+			const brk = ch.dmxBreak ?? 1;
+			let owner = owners.get(brk);
+			if (owner === undefined) owners.set(brk, (owner = new Map()));
+			for (const s of slotsOf(ch)) {
 				if (s > SLOTS_PER_UNIVERSE) {
 					ctx.addIssue({
 						code: 'custom',
@@ -66,7 +103,7 @@ export const modeInput = z
 					ctx.addIssue({
 						code: 'custom',
 						path: ['channels', i, 'offset'],
-						message: `${ch.parameter} and ${other} both claim slot ${s}.`
+						message: `${ch.parameter} and ${other} both claim slot ${s}${brk === 1 ? '' : ` of DMX break ${brk}`}.`
 					});
 					return;
 				}
@@ -103,7 +140,6 @@ export const typePatch = z.strictObject({
 	version: z.int().positive()
 });
 
-export type ChannelInput = z.output<typeof channelInput>;
 export type ModeInput = z.output<typeof modeInput>;
 export type TypeCreate = z.output<typeof typeCreate>;
 export type TypePatch = z.output<typeof typePatch>;

@@ -43,8 +43,8 @@ describe('GDTF fixture types (DIN SPEC 15800 structure)', () => {
 		const cells = mode('Cells');
 		expect(cells.channels.map((c) => c.parameter)).toEqual(['intensity', 'intensity 2', 'intensity 3', 'red']);
 		expect(cells.channels[0].bits).toBe(24);
-		// "255/1" on a 3-byte channel: shifted by two whole bytes, 255 × 65536 (GDTF DMXValue, from memory)
-		expect(cells.channels[0].default).toBe(255 * 65536);
+		// "255/1" on a 3-byte channel: byte mirroring fills every byte, 0xFFFFFF (GDTF DMXValue, DIN SPEC 15800)
+		expect(cells.channels[0].default).toBe(2 ** 24 - 1);
 		expect(modeSlotCount({ id: 3, name: 'Cells', channels: cells.channels })).toBe(6);
 	});
 
@@ -57,9 +57,10 @@ describe('GDTF fixture types (DIN SPEC 15800 structure)', () => {
 		expect(parameterFor('Pan')).toBe('Pan');
 	});
 
-	it('parses DMX values: plain numbers at the channel resolution, value/bytes rescaled by whole bytes', () => {
+	it('parses DMX values: plain numbers at the channel resolution, value/bytes mirrored up, narrowed to high bytes', () => {
 		expect(parseDmxValue('128', 1)).toBe(128);
-		expect(parseDmxValue('1/1', 2)).toBe(256);
+		// GDTF DMXValue: "1/1" is stretched by byte mirroring, 0x0101 (DIN SPEC 15800 attribute value types)
+		expect(parseDmxValue('1/1', 2)).toBe(257);
 		expect(parseDmxValue('65535/2', 1)).toBe(255);
 		expect(parseDmxValue('', 1)).toBeNull();
 		expect(parseDmxValue('abc', 1)).toBeNull();

@@ -98,13 +98,31 @@ describe('XYZ → sRGB (IEC 61966-2-1)', () => {
 	});
 });
 
-describe('HSI swatch (done as HSV: intensity as value)', () => {
+describe('HSI swatch (hue and saturation as HSV at full value, intensity scaled in linear light)', () => {
 	it('gives the primaries, a pastel and black', () => {
 		expect([0, 120, 240].map((h) => hsiSwatch(h, 100, 100))).toEqual(['#ff0000', '#00ff00', '#0000ff']);
 		expect(hsiSwatch(120, 50, 100)).toBe('#80ff80');
 		expect(hsiSwatch(360, 100, 100)).toBe('#ff0000');
 		expect(hsiSwatch(-60, 100, 100)).toBe('#ff00ff');
 		expect(hsiSwatch(200, 80, 0)).toBe('#000000');
-		expect(hsiSwatch(0, 0, 50)).toBe('#808080');
+	});
+
+	it('50 % white is half the light, like the CCT swatch: linear 0.5 encoded per IEC 61966-2-1, checked against culori', () => {
+		const toRgb = converter('rgb');
+		const hex = (c: { r: number; g: number; b: number }) =>
+			'#' +
+			[c.r, c.g, c.b]
+				.map((v) =>
+					Math.round(v * 255)
+						.toString(16)
+						.padStart(2, '0')
+				)
+				.join('');
+		const halfWhite = hex(toRgb({ mode: 'lrgb', r: 0.5, g: 0.5, b: 0.5 }));
+		expect(halfWhite).toBe('#bcbcbc');
+		expect(hsiSwatch(0, 0, 50)).toBe(halfWhite);
+		expect(hsiSwatch(0, 100, 50)).toBe(hex(toRgb({ mode: 'lrgb', r: 0.5, g: 0, b: 0 })));
+		// the CCT swatch already scales in linear light: its brightest channel at 50 % is the same 0xbc
+		expect(cctSwatch(6504, 50).slice(1, 3)).toBe('bc');
 	});
 });

@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import {
+	analysePatch,
 	findConflicts,
 	sweep,
 	type Bits,
@@ -170,10 +171,12 @@ describe('line-overload — EIA-485: 32 unit loads per segment without a splitte
 		expect(findConflicts({ universes: [universe(2, 2, 'dmx-wireless')], modes, fixtures: fs })).toEqual([]);
 	});
 
-	it('survives a follow cycle', () => {
+	it('reports a follow cycle once, naming every fixture on it (nothing drives a circle — common practice)', () => {
 		const a = fixture({ kind: 'follow', leaderId: 2 }, { id: 1, number: 1 });
 		const b = fixture({ kind: 'follow', leaderId: 1 }, { id: 2, number: 2 });
-		expect(findConflicts({ universes: [wired], modes, fixtures: [a, b] })).toEqual([]);
+		const cs = findConflicts({ universes: [wired], modes, fixtures: [a, b] });
+		expect(cs.map((c) => [c.kind, c.severity, c.fixtureIds])).toEqual([['follow-cycle', 'error', [1, 2]]]);
+		expect(cs[0].message).toContain('Fixtures 1 and 2 follow each other in a circle');
 	});
 });
 
@@ -455,5 +458,120 @@ describe('sweep — both sort strategies agree', () => {
 			}),
 			{ numRuns: 300 }
 		);
+	});
+});
+
+describe('follow, mode and link-group conflicts', () => {
+	const u1 = universe(1, 1);
+	const modes = [plainMode(1, 4), plainMode(2, 8)];
+	const follow = (leaderId: number, over: Partial<PatchFixture>) => fixture({ kind: 'follow', leaderId }, over);
+
+	it('a fixture following itself is a follow-cycle', () => {
+		const cs = findConflicts({ universes: [u1], modes, fixtures: [follow(5, { id: 5, number: 5 })] });
+		expect(cs.map((c) => [c.kind, c.fixtureIds])).toEqual([['follow-cycle', [5]]]);
+		expect(cs[0].message).toBe('Fixture 5 follows itself, so nothing drives it — give it a leader or its own address.');
+	});
+
+	it('a chain into a cycle names only the cycle; a chain to an addressed leader is fine', () => {
+		const lead = dmx(1, 1, { id: 1, number: 1 });
+		const ok = follow(1, { id: 2, number: 2 });
+		const c1 = follow(4, { id: 3, number: 3 });
+		const c2 = follow(3, { id: 4, number: 4 });
+		const tail = follow(3, { id: 6, number: 6 });
+		const cs = findConflicts({ universes: [u1], modes, fixtures: [lead, ok, c1, c2, tail] });
+		expect(cs.map((c) => [c.kind, c.fixtureIds])).toEqual([['follow-cycle', [3, 4]]]);
+	});
+
+	it('a follower whose leader is not in the project is a missing-leader', () => {
+		const cs = findConflicts({ universes: [u1], modes, fixtures: [follow(99, { id: 7, number: 7 })] });
+		expect(cs.map((c) => [c.kind, c.severity, c.fixtureIds])).toEqual([['missing-leader', 'error', [7]]]);
+	});
+
+	it('a fixture whose mode is unknown is an unknown-mode error instead of silently claiming nothing', () => {
+		const cs = findConflicts({ universes: [u1], modes, fixtures: [dmx(1, 1, { id: 8, number: 8, modeId: 42 })] });
+		expect(cs.map((c) => [c.kind, c.severity, c.fixtureIds])).toEqual([['unknown-mode', 'error', [8]]]);
+		expect(cs[0].message).toContain('mode id 42');
+	});
+
+	it('link-group members that differ in universe, address or mode are a link-mismatch', () => {
+		const u2 = universe(2, 2);
+		const a = dmx(1, 10, { id: 1, number: 1, linkGroup: 'L' });
+		const b = dmx(2, 10, { id: 2, number: 2, linkGroup: 'L' });
+		const c = dmx(1, 20, { id: 3, number: 3, linkGroup: 'M' });
+		const d = dmx(1, 30, { id: 4, number: 4, linkGroup: 'M' });
+		const e = dmx(1, 40, { id: 5, number: 5, linkGroup: 'N' });
+		const g = dmx(1, 40, { id: 6, number: 6, linkGroup: 'N', modeId: 2 });
+		const cs = findConflicts({ universes: [u1, u2], modes, fixtures: [a, b, c, d, e, g] });
+		const mismatch = cs.filter((x) => x.kind === 'link-mismatch');
+		expect(mismatch.map((x) => [x.severity, x.fixtureIds])).toEqual([
+			['warning', [1, 2]],
+			['warning', [3, 4]],
+			['warning', [5, 6]]
+		]);
+		expect(mismatch[0].message).toContain('differ in universe (');
+		expect(mismatch[1].message).toContain('differ in address (');
+		expect(mismatch[2].message).toContain('differ in mode (');
+	});
+
+	it('matching link-group members give only the linked note', () => {
+		const a = dmx(1, 10, { id: 1, number: 1, linkGroup: 'L' });
+		const b = dmx(1, 10, { id: 2, number: 2, linkGroup: 'L' });
+		expect(kinds(findConflicts({ universes: [u1], modes, fixtures: [a, b] }))).toEqual(['linked']);
+	});
+});
+
+describe('DMX breaks (DIN SPEC 15800 DMX mode: a mode may span several breaks)', () => {
+	const u1 = universe(1, 1);
+	const u2 = universe(2, 2);
+	// break 1: slots 1–4; break 2: slots 1–3
+	const twoBreak: Mode = {
+		id: 9,
+		name: 'split',
+		channels: [channel(1, 'a', 32), { ...channel(1, 'b', 24), dmxBreak: 2 }]
+	};
+	const split = (
+		address: number,
+		b2: { universeId: number; address: number } | undefined,
+		over: Partial<PatchFixture>
+	) =>
+		fixture(
+			{ kind: 'dmx', universeId: 1, address, ...(b2 ? { breaks: [{ dmxBreak: 2, ...b2 }] } : {}) },
+			{ modeId: 9, ...over }
+		);
+
+	it('each break claims its own universe and address; footprints carry both', () => {
+		const f = split(10, { universeId: 2, address: 100 }, { id: 1, number: 1 });
+		const other = dmx(2, 101, { id: 2, number: 2, modeId: 1 });
+		const a = analysePatch({ universes: [u1, u2], modes: [twoBreak, plainMode(1, 4)], fixtures: [f, other] });
+		expect(a.footprints[0]).toEqual({
+			fixtureId: 1,
+			footprint: 4,
+			universeId: 1,
+			ranges: [{ start: 10, end: 13 }],
+			breaks: [{ dmxBreak: 2, footprint: 3, universeId: 2, ranges: [{ start: 100, end: 102 }] }]
+		});
+		expect(a.conflicts.map((c) => [c.kind, c.universeId, c.slots])).toEqual([['overlap', 2, [101, 102]]]);
+		expect(a.conflicts[0].message).toBe(
+			'Fixtures 1 (break 2) and 2 both claim slots 101–102 of universe 2 — move one.'
+		);
+	});
+
+	it('a missing second break address is an out-of-range error naming the break', () => {
+		const cs = findConflicts({
+			universes: [u1],
+			modes: [twoBreak],
+			fixtures: [split(1, undefined, { id: 3, number: 3 })]
+		});
+		expect(cs.map((c) => c.kind)).toEqual(['out-of-range']);
+		expect(cs[0].message).toContain('DMX break 2');
+	});
+
+	it("a fixture's two breaks on the same slots overlap each other", () => {
+		const cs = findConflicts({
+			universes: [u1],
+			modes: [twoBreak],
+			fixtures: [split(1, { universeId: 1, address: 3 }, { id: 4, number: 4 })]
+		});
+		expect(cs.map((c) => [c.kind, c.fixtureIds, c.slots])).toEqual([['overlap', [4], [3, 4]]]);
 	});
 });

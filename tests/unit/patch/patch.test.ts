@@ -102,3 +102,26 @@ describe('computePatch — what GET /patch answers', () => {
 		).toEqual([]);
 	});
 });
+
+describe('computePatch — universe figures', () => {
+	const modes: Mode[] = [plainMode(1, 4)];
+
+	it('says the highest used slot and the count of used slots apart, and both refresh figures', () => {
+		const fs = [dmx(1, 1, { id: 1, number: 1 }), dmx(1, 21, { id: 2, number: 2 })];
+		const [u] = computePatch({ universes: [universe(1)], modes, fixtures: fs }).universes;
+		expect(u).toMatchObject({ slotsUsed: 24, slotCount: 8 });
+		expect(u.refreshText).toBe('up to 830 Hz if the transmitter sends 24 slots; 44 Hz at 512');
+		expect(u.refreshFullHz).toBeCloseTo(1e6 / 22676, 6);
+	});
+
+	it('cautions when an Art-Net universe lands on port-address 0 (deprecated in Art-Net 4, from memory)', () => {
+		const us = [universe(1, 1, 'artnet'), universe(2, 2, 'artnet'), universe(3, 1, 'sacn')];
+		const withOffset = computePatch({ universes: us, modes, fixtures: [], artnetOffset: 1 }).universes;
+		expect(withOffset.map((u) => u.artnet?.portAddress)).toEqual([0, 0, 1]);
+		expect(withOffset[0].artnetCaution).toContain('port-address 0, which Art-Net 4 deprecates');
+		expect(withOffset[1].artnetCaution).toBeNull(); // sACN universe: no Art-Net on the wire
+		expect(withOffset[2].artnetCaution).toBeNull();
+		const same = computePatch({ universes: us, modes, fixtures: [], artnetOffset: 0 }).universes;
+		expect(same.map((u) => u.artnetCaution)).toEqual([null, null, null]);
+	});
+});

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { dmxFrameTiming } from '../../../src/lib/patch';
+import { dmxFrameTiming, refreshFigures } from '../../../src/lib/patch';
 
 // ANSI E1.11: 250 kbit/s (44 µs a slot), break ≥ 92 µs, MAB ≥ 12 µs.
 describe('DMX512 refresh', () => {
@@ -21,5 +21,18 @@ describe('DMX512 refresh', () => {
 		expect(dmxFrameTiming(0).frameUs).toBe(1204);
 		expect(dmxFrameTiming(25).frameUs).toBe(104 + 26 * 44);
 		expect(() => dmxFrameTiming(513)).toThrow(RangeError);
+	});
+});
+
+describe('refresh shown as both figures (ANSI E1.11 timing)', () => {
+	it('24 slots: up to 830 Hz (1204 µs frame) if the transmitter stops there; 44 Hz at 512 (22 676 µs)', () => {
+		const f = refreshFigures(24);
+		// 92 + 12 + 25 × 44 = 1204 µs → 830.6 Hz; 92 + 12 + 513 × 44 = 22 676 µs → 44.1 Hz
+		expect(f.bestHz).toBeCloseTo(1e6 / 1204, 6);
+		expect(f.fullHz).toBeCloseTo(1e6 / 22676, 6);
+		expect(f.text).toBe('up to 830 Hz if the transmitter sends 24 slots; 44 Hz at 512');
+	});
+	it('a full universe has one figure', () => {
+		expect(refreshFigures(512).text).toBe('44 Hz at 512 slots');
 	});
 });

@@ -35,7 +35,11 @@ function writeChannels(modeId: number, mode: ModeInput): void {
 				defaultValue: c.default,
 				min: c.min ?? null,
 				max: c.max ?? null,
-				unit: c.unit ?? null
+				unit: c.unit ?? null,
+				dmxFrom: c.dmxFrom ?? null,
+				dmxTo: c.dmxTo ?? null,
+				dmxBreak: c.dmxBreak ?? 1,
+				fineOffsets: c.fineOffsets !== undefined && c.fineOffsets.length > 0 ? c.fineOffsets : null
 			}))
 		)
 		.run();

@@ -1,6 +1,7 @@
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import {
 	autoAddress,
+	breakFootprints,
 	defaultChannelCount,
 	modeSlotCount,
 	resolveDmx,
@@ -94,6 +95,18 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 			if (mode) {
 				const slots = modeSlotCount(mode.mode);
 				for (const p of resolveDmx(c.address, slots).problems) at(['control', 'address'], problemMessage(p, slots));
+				const wanted = breakFootprints(mode.mode).filter((b) => b.dmxBreak !== 1);
+				(c.breaks ?? []).forEach((b, i) => {
+					const fp = wanted.find((w) => w.dmxBreak === b.dmxBreak);
+					if (fp === undefined) {
+						at(['control', 'breaks', i, 'dmxBreak'], `Mode "${mode.mode.name}" has no DMX break ${b.dmxBreak}.`);
+						return;
+					}
+					if (!ctx.universes.has(b.universeId))
+						at(['control', 'breaks', i, 'universeId'], 'No such universe in this project.');
+					for (const p of resolveDmx(b.address, fp.slots).problems)
+						at(['control', 'breaks', i, 'address'], problemMessage(p, fp.slots));
+				});
 			}
 			break;
 		}

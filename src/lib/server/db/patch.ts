@@ -1,5 +1,12 @@
 import { asc, eq, inArray } from 'drizzle-orm';
-import { computePatch, defaultChannelCount, modeSlotCount, type FixtureControl, type Mode } from '../../patch/index';
+import {
+	computePatch,
+	defaultChannelCount,
+	breakFootprints,
+	modeSlotCount,
+	type FixtureControl,
+	type Mode
+} from '../../patch/index';
 import type {
 	ChannelShape,
 	FixtureShape,
@@ -34,7 +41,9 @@ export type {
 export function controlOf(f: FixtureRow): FixtureControl {
 	switch (f.controlKind) {
 		case 'dmx':
-			return { kind: 'dmx', universeId: f.universeId, address: f.address ?? 0 };
+			return f.breakAddresses != null && f.breakAddresses.length > 0
+				? { kind: 'dmx', universeId: f.universeId, address: f.address ?? 0, breaks: f.breakAddresses }
+				: { kind: 'dmx', universeId: f.universeId, address: f.address ?? 0 };
 		case 'dmx-map':
 			return { kind: 'dmx-map', universeId: f.universeId, addresses: f.addressMap ?? {} };
 		case 'rc':
@@ -51,6 +60,7 @@ export function controlColumns(control: FixtureControl) {
 	const cleared = {
 		universeId: null as number | null,
 		address: null as number | null,
+		breakAddresses: null as { dmxBreak: number; universeId: number; address: number }[] | null,
 		addressMap: null as Record<string, number> | null,
 		receiverId: null as number | null,
 		rcChannels: null as Record<string, number> | null,
@@ -58,7 +68,16 @@ export function controlColumns(control: FixtureControl) {
 	};
 	switch (control.kind) {
 		case 'dmx':
-			return { ...cleared, controlKind: 'dmx' as const, universeId: control.universeId, address: control.address };
+			return {
+				...cleared,
+				controlKind: 'dmx' as const,
+				universeId: control.universeId,
+				address: control.address,
+				breakAddresses:
+					control.breaks !== undefined && control.breaks.length > 0
+						? control.breaks.map((b) => ({ dmxBreak: b.dmxBreak, universeId: b.universeId ?? 0, address: b.address }))
+						: null
+			};
 		case 'dmx-map':
 			return {
 				...cleared,
@@ -160,7 +179,11 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 			default: c.defaultValue,
 			...(c.min != null ? { min: c.min } : {}),
 			...(c.max != null ? { max: c.max } : {}),
-			...(c.unit != null ? { unit: c.unit } : {})
+			...(c.unit != null ? { unit: c.unit } : {}),
+			...(c.dmxFrom != null ? { dmxFrom: c.dmxFrom } : {}),
+			...(c.dmxTo != null ? { dmxTo: c.dmxTo } : {}),
+			...(c.dmxBreak !== 1 ? { dmxBreak: c.dmxBreak } : {}),
+			...(c.fineOffsets != null && c.fineOffsets.length > 0 ? { fineOffsets: c.fineOffsets } : {})
 		});
 		channelsByMode.set(c.modeId, list);
 	}
@@ -168,7 +191,10 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 	for (const m of modeRows) {
 		const channels = channelsByMode.get(m.id) ?? [];
 		const list = modesByType.get(m.typeId) ?? [];
-		list.push({ id: m.id, name: m.name, slots: modeSlotCount({ id: m.id, name: m.name, channels }), channels });
+		const mode = { id: m.id, name: m.name, channels };
+		const breaks = breakFootprints(mode);
+		// a one-break mode keeps its old shape; `breaks` only appears when there is more than one
+		list.push({ ...mode, slots: modeSlotCount(mode), ...(breaks.length > 1 ? { breaks } : {}) });
 		modesByType.set(m.typeId, list);
 	}
 	return typeRows.map((t) => ({
@@ -265,7 +291,8 @@ export function computeFor(
 		receivers: receiverRows,
 		fixtures: fixtureRows.map((f) => {
 			const fp = footprintById.get(f.id);
-			return { ...f, slots: fp?.ranges ?? [], footprint: fp?.footprint ?? null };
+			const base = { ...f, slots: fp?.ranges ?? [], footprint: fp?.footprint ?? null };
+			return fp?.breaks !== undefined ? { ...base, breakSlots: fp.breaks } : base;
 		}),
 		conflicts: result.conflicts
 	};

@@ -216,11 +216,19 @@ export const modeChannels = sqliteTable(
 		// null: a virtual channel that takes no slot
 		offset: integer('offset'),
 		parameter: text('parameter').notNull(),
-		bits: integer('bits').$type<8 | 16 | 24>().notNull().default(8),
+		bits: integer('bits').$type<8 | 16 | 24 | 32>().notNull().default(8),
 		defaultValue: integer('default_value').notNull().default(0),
+		// physical value at the start (min) and end (max) of the DMX range; may run downward
 		min: real('min'),
 		max: real('max'),
-		unit: text('unit')
+		unit: text('unit'),
+		// DMX sub-range the physical range covers (GDTF ChannelFunction DMXFrom); null: the whole range
+		dmxFrom: integer('dmx_from'),
+		dmxTo: integer('dmx_to'),
+		// GDTF DMXBreak: which of the fixture's start addresses the offset counts from
+		dmxBreak: integer('dmx_break').notNull().default(1),
+		// JSON [slot, …]: finer bytes that do not follow the coarse one (GDTF Offset "2,9")
+		fineOffsets: text('fine_offsets', { mode: 'json' }).$type<number[]>()
 	},
 	(t) => [index('mode_channel_mode').on(t.modeId)]
 );
@@ -280,6 +288,11 @@ export const fixtures = sqliteTable(
 		controlKind: text('control_kind', { enum: CONTROL_KINDS }).notNull().default('manual'),
 		universeId: integer('universe_id').references(() => universes.id, { onDelete: 'restrict' }),
 		address: integer('address'),
+		// dmx with a multi-break mode: JSON [{ dmxBreak, universeId, address }] for breaks 2…n;
+		// universe_id and address above stay break 1, so every existing fixture is break 1 as it was
+		breakAddresses: text('break_addresses', { mode: 'json' }).$type<
+			{ dmxBreak: number; universeId: number; address: number }[]
+		>(),
 		// dmx-map: JSON { parameter: address }
 		addressMap: text('address_map', { mode: 'json' }).$type<Record<string, number>>(),
 		receiverId: integer('receiver_id').references(() => receivers.id, { onDelete: 'restrict' }),

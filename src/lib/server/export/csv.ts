@@ -55,6 +55,11 @@ export function exportPatchCsv(projectId: number): string {
 			range = f.slots.length
 				? `${universe}.${formatSlots(f.slots.flatMap((s) => Array.from({ length: s.end - s.start + 1 }, (_, i) => s.start + i)))}`
 				: '';
+			// breaks 2…n of a multi-break mode follow in the range column: "1.1–6; break 2 2.10–13"
+			for (const b of f.breakSlots ?? []) {
+				const bu = universes.get(b.universeId ?? -1) ?? '?';
+				range += `; break ${b.dmxBreak} ${b.ranges.length ? `${bu}.${formatSlots(b.ranges.flatMap((s) => Array.from({ length: s.end - s.start + 1 }, (_, i) => s.start + i)))}` : `${bu}.?`}`;
+			}
 		} else if (c.kind === 'dmx-map') {
 			// no single start address: the universe and address columns stay empty (an import then keeps the map)
 			// and the range column carries each parameter's universe.address

@@ -5,6 +5,7 @@ import { importParsedCsv, type CsvSummary, type ParsedCsv } from './csv';
 import type { GdtfResult } from './gdtf';
 import { sniff } from './limits';
 import { runJob } from '../workers/pool';
+import { breakFootprints } from '../../patch/footprint';
 import type { Upload } from './multipart';
 import type { TypeCreate } from '../../schemas/type';
 
@@ -18,7 +19,8 @@ export interface GdtfSummary {
 	warnings: string[];
 	/** the type as it will be (preview) or was (applied) created */
 	type: TypeCreate | TypeShape;
-	modes: { name: string; slots: number; channels: number }[];
+	/** `slots` is break 1's footprint; `breaks` lists every break's when the mode has more than one. */
+	modes: { name: string; slots: number; channels: number; breaks?: { dmxBreak: number; slots: number }[] }[];
 	exists: boolean;
 }
 
@@ -26,10 +28,6 @@ export interface GdtfSummary {
 export function wantsApply(url: URL, fields: Map<string, string>): boolean {
 	const v = url.searchParams.get('apply') ?? fields.get('apply');
 	return v === 'true' || v === '1';
-}
-
-function slotsOf(channels: { offset: number | null; bits: number }[]): number {
-	return channels.reduce((n, c) => (c.offset === null ? n : Math.max(n, c.offset + c.bits / 8 - 1)), 0);
 }
 
 /** Parsing runs in a worker thread (workers/pool.ts); only the database writes run here. */
@@ -55,7 +53,15 @@ export async function importUpload(
 			throw new DuplicateError(
 				`${type.maker} ${type.model} is already a fixture type in this project; rename or delete it first.`
 			);
-		const modes = type.modes.map((m) => ({ name: m.name, slots: slotsOf(m.channels), channels: m.channels.length }));
+		const modes = type.modes.map((m) => {
+			const breaks = breakFootprints({ id: 0, name: m.name, channels: m.channels });
+			return {
+				name: m.name,
+				slots: breaks[0].slots,
+				channels: m.channels.length,
+				...(breaks.length > 1 ? { breaks } : {})
+			};
+		});
 		const created = apply ? createType(projectId, userId, type) : type;
 		return { kind: 'gdtf', applied: apply, dataVersion, warnings, type: created, modes, exists };
 	}

@@ -115,8 +115,13 @@ export function labelText(patch: PatchData, l: Lookup, f: Fixture): LabelText {
 			source = c.kind === 'dmx' ? 'DMX' : 'DMX, address per parameter';
 			// the start address is what gets dialled in on a dmx unit; a mapped one needs each slot
 			if (!u) where = 'no universe';
-			else if (c.kind === 'dmx') where = `${u.number}.${c.address}`;
-			else where = f.slots.length ? addressText(u.number, f.slots) : `${u.number}.?`;
+			else if (c.kind === 'dmx') {
+				// a multi-break mode is dialled in once per break
+				const more = (c.breaks ?? []).map(
+					(b) => ` · break ${b.dmxBreak} ${universes.get(b.universeId ?? -1)?.number ?? '?'}.${b.address}`
+				);
+				where = `${u.number}.${c.address}${more.join('')}`;
+			} else where = f.slots.length ? addressText(u.number, f.slots) : `${u.number}.?`;
 			break;
 		}
 		case 'rc': {

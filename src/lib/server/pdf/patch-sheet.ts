@@ -77,7 +77,8 @@ export function universeLine(u: Universe): string {
 				: 'no Art-Net port-address'
 		);
 	}
-	parts.push(`${u.slotsUsed} slots used`, `refresh ${u.refreshHz.toFixed(1)} Hz`);
+	parts.push(`highest slot ${u.slotsUsed}`, `refresh ${u.refreshText}`);
+	if (u.artnetCaution) parts.push(u.artnetCaution);
 	return parts.join(' · ');
 }
 
@@ -184,9 +185,17 @@ export async function renderPatchSheet(patch: PatchData, title: TitleInfo, paper
 
 	// ── Universes ──
 	for (const u of patch.universes) {
+		// a fixture of a multi-break mode is listed on each universe one of its breaks lands on
 		const rows = patch.fixtures
-			.filter((f) => (f.control.kind === 'dmx' || f.control.kind === 'dmx-map') && f.control.universeId === u.id)
-			.sort((a, b) => (a.slots[0]?.start ?? 1e9) - (b.slots[0]?.start ?? 1e9) || a.number - b.number);
+			.flatMap((f) => {
+				const own = (f.control.kind === 'dmx' || f.control.kind === 'dmx-map') && f.control.universeId === u.id;
+				const more = (f.breakSlots ?? []).filter((b) => b.universeId === u.id);
+				return [
+					...(own ? [{ f, slots: f.slots, dmxBreak: f.breakSlots ? 1 : 0 }] : []),
+					...more.map((b) => ({ f, slots: b.ranges, dmxBreak: b.dmxBreak }))
+				];
+			})
+			.sort((a, b) => (a.slots[0]?.start ?? 1e9) - (b.slots[0]?.start ?? 1e9) || a.f.number - b.f.number);
 		const caption = `Universe ${u.number}${u.name ? ` — ${u.name}` : ''}`;
 		heading(sheet, cursor, caption, 11, 60);
 		paragraph(sheet, cursor, universeLine(u) + (u.notes ? ` · ${u.notes}` : ''), 8);
@@ -197,8 +206,10 @@ export async function renderPatchSheet(patch: PatchData, title: TitleInfo, paper
 			continue;
 		}
 		table.start();
-		for (const f of rows) {
-			const address = f.slots.length ? addressText(u.number, f.slots) : `${u.number}.? (off the universe)`;
+		for (const { f, slots, dmxBreak } of rows) {
+			const address =
+				(slots.length ? addressText(u.number, slots) : `${u.number}.? (off the universe)`) +
+				(dmxBreak > 0 ? ` (break ${dmxBreak})` : '');
 			withFollowers(table, f, {
 				...common(f),
 				address: `${flagged.has(f.id) ? '! ' : ''}${address}`,

@@ -1,0 +1,112 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { makeCrew, signInCrew } from '../helpers/factories';
+import { BAR_XML, gdtfZip, TWO_BREAK_XML } from '../helpers/gdtf';
+import { startServer, type TestServer } from '../helpers/server';
+
+// A mode over several DMX breaks (DIN SPEC 15800 DMX mode / DMXChannel DMXBreak) through the API:
+// GDTF import keeps break 2, a fixture gets a start address per break, the patch claims both.
+
+let server: TestServer;
+let pid: number;
+let as: Awaited<ReturnType<typeof signInCrew>>;
+
+beforeAll(async () => {
+	server = await startServer();
+	const { project, crew, outsider } = await makeCrew(server.db());
+	pid = project.id;
+	as = await signInCrew(server, crew, outsider);
+});
+afterAll(() => server?.stop());
+
+const base = () => `/api/projects/${pid}`;
+
+function importGdtf(xml: string, name: string, apply: boolean) {
+	const form = new FormData();
+	form.set('file', new Blob([new Uint8Array(gdtfZip(xml))]), name);
+	if (apply) form.set('apply', 'true');
+	return as.programmer.fetch(`${base()}/import`, { method: 'POST', body: form });
+}
+
+describe('DMX breaks through import, fixtures and the patch', () => {
+	let typeId: number;
+	let modeId: number;
+	let u1: number;
+	let u2: number;
+
+	it('the import preview gives each break its footprint; a 12-cell bar previews as 48 slots', async () => {
+		const bar = await (await importGdtf(BAR_XML, 'bar.gdtf', false)).json();
+		expect(bar.modes).toEqual([{ name: 'Pixel RGBW', slots: 48, channels: 48 }]);
+		const res = await importGdtf(TWO_BREAK_XML, 'twin.gdtf', true);
+		expect(res.status).toBe(201);
+		const body = await res.json();
+		expect(body.modes).toEqual([
+			{
+				name: 'Split',
+				slots: 6,
+				channels: 4,
+				breaks: [
+					{ dmxBreak: 1, slots: 6 },
+					{ dmxBreak: 2, slots: 4 }
+				]
+			}
+		]);
+		typeId = body.type.id;
+		modeId = body.type.modes[0].id;
+		expect(body.type.modes[0].breaks).toEqual(body.modes[0].breaks);
+		expect(body.type.modes[0].channels[2]).toMatchObject({ parameter: 'green', offset: 1, dmxBreak: 2 });
+	});
+
+	it('a fixture takes a start address per break; GET /patch claims both and a one-break fixture keeps its shape', async () => {
+		u1 = (await (await as.programmer.post(`${base()}/universes`, { number: 1, transport: 'sacn' })).json()).id;
+		u2 = (await (await as.programmer.post(`${base()}/universes`, { number: 2, transport: 'sacn' })).json()).id;
+		const control = { kind: 'dmx', universeId: u1, address: 1, breaks: [{ dmxBreak: 2, universeId: u2, address: 10 }] };
+		const res = await as.programmer.post(`${base()}/fixtures`, { number: 1, typeId, modeId, control });
+		expect(res.status).toBe(201);
+		expect((await res.json()).control).toEqual(control);
+		const patch = await (await as.viewer.get(`${base()}/patch`)).json();
+		const f = patch.fixtures.find((x: { number: number }) => x.number === 1);
+		expect(f.slots).toEqual([{ start: 1, end: 6 }]);
+		expect(f.breakSlots).toEqual([{ dmxBreak: 2, footprint: 4, universeId: u2, ranges: [{ start: 10, end: 13 }] }]);
+		const universe2 = patch.universes.find((u: { number: number }) => u.number === 2);
+		expect(universe2).toMatchObject({ slotsUsed: 13, slotCount: 4 });
+		expect(patch.conflicts).toEqual([]);
+		// the CSV's range column carries break 2 after break 1
+		const csv = await (await as.viewer.get(`${base()}/export.csv`)).text();
+		expect(csv.split('\r\n').find((l) => l.startsWith('1,'))).toContain('1.1–6; break 2 2.10–13');
+	});
+
+	it('refuses a break the mode does not have and a break address that runs past 512', async () => {
+		const bad = await as.programmer.post(`${base()}/fixtures`, {
+			number: 2,
+			typeId,
+			modeId,
+			control: {
+				kind: 'dmx',
+				universeId: u1,
+				address: 20,
+				breaks: [
+					{ dmxBreak: 3, universeId: u2, address: 1 },
+					{ dmxBreak: 2, universeId: u2, address: 510 }
+				]
+			}
+		});
+		expect(bad.status).toBe(400);
+		const issues = (await bad.json()).error.issues.map((i: { path: unknown[] }) => i.path.join('.'));
+		expect(issues).toEqual(['control.breaks.0.dmxBreak', 'control.breaks.1.address']);
+	});
+
+	it('a fixture without its second break address shows an out-of-range conflict naming the break', async () => {
+		const res = await as.programmer.post(`${base()}/fixtures`, {
+			number: 3,
+			typeId,
+			modeId,
+			control: { kind: 'dmx', universeId: u1, address: 30 }
+		});
+		expect(res.status).toBe(201);
+		expect((await res.json()).control).toEqual({ kind: 'dmx', universeId: u1, address: 30 });
+		const { conflicts } = await (await as.viewer.get(`${base()}/conflicts`)).json();
+		expect(conflicts.map((c: { kind: string; message: string }) => [c.kind, c.message])).toEqual([
+			['out-of-range', 'Fixture 3 has no universe and address for DMX break 2 (4 slots) — give it one.']
+		]);
+	});
+});
