@@ -2,8 +2,8 @@
 // battery rotation (issue 15). Pure: plain data in, plain data out; the API, the pages and the
 // power sheet all call computePower.
 
-export const CHEMISTRIES = ['li-ion', 'lipo', 'lifepo4'] as const;
-export type Chemistry = (typeof CHEMISTRIES)[number];
+import type { Chemistry } from '../vocab';
+export type { Chemistry } from '../vocab';
 
 export interface CellVolts {
 	nominal: number;

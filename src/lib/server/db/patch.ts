@@ -4,6 +4,7 @@ import {
 	defaultChannelCount,
 	modeSlotCount,
 	type Conflict,
+	type Feed,
 	type FixtureControl,
 	type Mode,
 	type ModeChannel,
@@ -28,12 +29,16 @@ export interface ModeShape {
 	name: string;
 	slots: number;
 	channels: ChannelShape[];
+	// power (issue 15); optional so shapes built elsewhere (tests, snapshots) need not carry them
+	watts?: number | null;
+	inputVolts?: { min: number; max: number } | null;
 }
 export interface TypeShape {
 	id: number;
 	maker: string;
 	model: string;
 	notes: string;
+	drawFloor?: number;
 	version: number;
 	modes: ModeShape[];
 }
@@ -53,6 +58,8 @@ export interface FixtureShape {
 	version: number;
 	look: { hue: number | null; saturation: number | null; intensity: number | null; cct: number | null };
 	control: FixtureControl;
+	/** optional: revision snapshots taken before power planning have none */
+	feed?: Feed;
 }
 export interface UniverseShape {
 	id: number;
@@ -137,7 +144,22 @@ export function fixtureShape(f: FixtureRow): FixtureShape {
 		state: f.state,
 		version: f.version,
 		look: { hue: f.lookHue, saturation: f.lookSaturation, intensity: f.lookIntensity, cct: f.lookCct },
-		control: controlOf(f)
+		control: controlOf(f),
+		feed: feedOf(f)
+	};
+}
+
+export function feedOf(f: Pick<FixtureRow, 'packTypeId' | 'circuitId'>): Feed {
+	if (f.packTypeId != null) return { kind: 'battery', packTypeId: f.packTypeId };
+	if (f.circuitId != null) return { kind: 'mains', circuitId: f.circuitId };
+	return { kind: 'none' };
+}
+
+/** The feed columns a feed sets; the other is cleared. */
+export function feedColumns(feed: Feed) {
+	return {
+		packTypeId: feed.kind === 'battery' ? feed.packTypeId : null,
+		circuitId: feed.kind === 'mains' ? feed.circuitId : null
 	};
 }
 
@@ -209,7 +231,15 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 	for (const m of modeRows) {
 		const channels = channelsByMode.get(m.id) ?? [];
 		const list = modesByType.get(m.typeId) ?? [];
-		list.push({ id: m.id, name: m.name, slots: modeSlotCount({ id: m.id, name: m.name, channels }), channels });
+		list.push({
+			id: m.id,
+			name: m.name,
+			slots: modeSlotCount({ id: m.id, name: m.name, channels }),
+			channels,
+			watts: m.watts,
+			inputVolts:
+				m.inputVoltsMin != null && m.inputVoltsMax != null ? { min: m.inputVoltsMin, max: m.inputVoltsMax } : null
+		});
 		modesByType.set(m.typeId, list);
 	}
 	return typeRows.map((t) => ({
@@ -217,6 +247,7 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 		maker: t.maker,
 		model: t.model,
 		notes: t.notes,
+		drawFloor: t.drawFloor,
 		version: t.version,
 		modes: modesByType.get(t.id) ?? []
 	}));

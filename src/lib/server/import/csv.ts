@@ -1,4 +1,6 @@
 import Papa from 'papaparse';
+import { listCircuits, listPackTypes } from '../db/power';
+import { feedText, parseFeed, sameFeed } from '../power-csv';
 import { ApiError, type ApiIssue } from '../api';
 import { createFixtures, updateFixtures, type FixtureChange } from '../db/fixtures';
 import { db } from '../db/index';
@@ -14,7 +16,18 @@ import type { ImportIssue } from './gdtf';
 // writes and rolls them back, so what it shows is exactly what apply does.
 
 export type CsvField =
-	'number' | 'label' | 'maker' | 'model' | 'mode' | 'universe' | 'address' | 'patch' | 'position' | 'group' | 'notes';
+	| 'number'
+	| 'label'
+	| 'maker'
+	| 'model'
+	| 'mode'
+	| 'universe'
+	| 'address'
+	| 'patch'
+	| 'position'
+	| 'group'
+	| 'notes'
+	| 'feed';
 
 const SYNONYMS: Record<CsvField, string[]> = {
 	number: [
@@ -51,7 +64,8 @@ const SYNONYMS: Record<CsvField, string[]> = {
 	patch: ['patch', 'universeaddress', 'univaddress', 'univaddr', 'uaddr', 'uaddress', 'dmxpatch'],
 	position: ['position', 'pos', 'location', 'hangingposition', 'rigposition'],
 	group: ['group', 'groupname'],
-	notes: ['notes', 'note', 'comments', 'comment', 'remarks']
+	notes: ['notes', 'note', 'comments', 'comment', 'remarks'],
+	feed: ['feed', 'power', 'powerfeed']
 };
 
 /** the bulk fixture API's own cap: one transaction stays short enough not to stall the server */
@@ -91,6 +105,7 @@ export interface CsvRow {
 	position?: string;
 	group?: string;
 	notes?: string;
+	feed?: string;
 }
 
 /** Our own export guards cells against formula injection with a leading quote; take it back off on the way in. */
@@ -158,7 +173,7 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 		if (seen.has(num)) return bad('number', `Fixture ${num} is also on row ${seen.get(num)}.`);
 		seen.set(num, row);
 		const out: CsvRow = { row, number: num };
-		for (const f of ['label', 'maker', 'model', 'mode', 'position', 'group', 'notes'] as const) {
+		for (const f of ['label', 'maker', 'model', 'mode', 'position', 'group', 'notes', 'feed'] as const) {
 			const v = get(f);
 			if (v !== '') out[f] = v;
 		}
@@ -279,10 +294,17 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 			}
 			const creates: { row: CsvRow; input: FixtureCreate }[] = [];
 			const changes: { row: CsvRow; change: FixtureChange; what: string[] }[] = [];
+			const feedNames = { packTypes: listPackTypes(projectId), circuits: listCircuits(projectId) };
 			for (const r of rows) {
 				if (issues.some((i) => i.row === r.row)) continue;
 				const bad = (field: string, message: string) => issues.push({ row: r.row, field, message });
 				const before = existing.get(r.number);
+				const fed = r.feed === undefined ? undefined : parseFeed(r.feed, feedNames);
+				if (fed && 'error' in fed) {
+					bad('feed', fed.error);
+					continue;
+				}
+				const feed = fed?.feed;
 				let typeId: number | undefined;
 				let modeId: number | undefined;
 				if (r.maker !== undefined || r.model !== undefined || r.mode !== undefined || !before) {
@@ -328,7 +350,8 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 						position: r.position,
 						group: r.group,
 						notes: r.notes,
-						control: control ?? { kind: 'manual' }
+						control: control ?? { kind: 'manual' },
+						feed
 					});
 					if (!parsed.success) {
 						for (const i of parsed.error.issues)
@@ -367,6 +390,10 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 					if (control && !(c.kind === 'dmx' && c.universeId === control.universeId && c.address === control.address)) {
 						change.control = control;
 						what.push(`patch → ${patchText(r.universe, r.address)}`);
+					}
+					if (feed && !sameFeed(before.feed, feed)) {
+						change.feed = feed;
+						what.push(`feed → ${feedText(feed, feedNames)}`);
 					}
 					if (what.length === 0) continue;
 					changes.push({ row: r, change, what });
