@@ -153,6 +153,7 @@ export const ROUTES: Row[] = [
 	row('GET',    '/api/projects/[pid]/sheets/patch.pdf',               [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/sheets/labels.pdf',              [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/sheets/radio.pdf',               [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/sheets/power.pdf',               [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/export.csv',                     [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/export.json',                    [200, 200, 200, 200, 404, 401, 401]),
 	// a preview (no apply): 200 with what it would change, nothing written

@@ -176,3 +176,16 @@ describe('feeds and the power figures', () => {
 		);
 	});
 });
+
+describe('power sheet', () => {
+	it('prints the packs, the shortfalls and the circuits as a PDF any member may read', async () => {
+		const res = await as.viewer.get(`${base()}/sheets/power.pdf`);
+		expect(res.status).toBe(200);
+		expect(res.headers.get('content-type')).toBe('application/pdf');
+		const bytes = new Uint8Array(await res.arrayBuffer());
+		// a PDF starts with its version header (ISO 32000-1 §7.5.2)
+		expect(new TextDecoder().decode(bytes.slice(0, 5))).toBe('%PDF-');
+		expect((await as.outsider.get(`${base()}/sheets/power.pdf`)).status).toBe(404);
+		expect((await as.viewer.get(`${base()}/sheets/power.pdf?paper=tabloid`)).status).toBe(400);
+	});
+});

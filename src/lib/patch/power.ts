@@ -456,7 +456,7 @@ export function computePower(input: PowerInput): PowerResult {
 				packTypeId: p.id,
 				events: sim.events
 					.filter((ev) => ev.fixtureId === f.id)
-					.map((ev) => ({ at: ev.at - window.start, kind: ev.kind }))
+					.map((ev) => ({ at: Math.round(ev.at - window.start), kind: ev.kind }))
 			});
 			const at = sim.darkAt.get(f.id);
 			if (at === undefined) continue;
