@@ -4,6 +4,7 @@
 
 import type { BreakFootprint, Conflict, ModeChannel, PatchResult, SlotRange } from './patch/index';
 import type { FixtureControl } from './patch/types';
+import type { Feed } from './patch/power';
 import type { FixtureState, RcProtocol, Role, SignoffDecision, Transport } from './vocab';
 
 export interface Project {
@@ -40,12 +41,16 @@ export interface ModeShape {
 	channels: ChannelShape[];
 	/** Footprint per DMX break; present only when the mode has more than one. */
 	breaks?: { dmxBreak: number; slots: number }[];
+	// power (issue 15); optional so shapes built elsewhere (tests, snapshots) need not carry them
+	watts?: number | null;
+	inputVolts?: { min: number; max: number } | null;
 }
 export interface TypeShape {
 	id: number;
 	maker: string;
 	model: string;
 	notes: string;
+	drawFloor?: number;
 	version: number;
 	modes: ModeShape[];
 }
@@ -65,6 +70,8 @@ export interface FixtureShape {
 	version: number;
 	look: { hue: number | null; saturation: number | null; intensity: number | null; cct: number | null };
 	control: FixtureControl;
+	/** optional: revision snapshots taken before power planning have none */
+	feed?: Feed;
 }
 export interface UniverseShape {
 	id: number;

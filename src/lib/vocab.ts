@@ -50,3 +50,15 @@ export const RC_PROTOCOL_LABELS: Record<RcProtocol, string> = {
 
 export const SIGNOFF_DECISIONS = ['approved', 'changes-requested'] as const;
 export type SignoffDecision = (typeof SIGNOFF_DECISIONS)[number];
+
+// Power (issue 15): pack chemistries and what feeds a fixture.
+export const CHEMISTRIES = ['li-ion', 'lipo', 'lifepo4'] as const;
+export type Chemistry = (typeof CHEMISTRIES)[number];
+export const CHEMISTRY_LABELS: Record<Chemistry, string> = {
+	'li-ion': 'Li-ion',
+	lipo: 'LiPo',
+	lifepo4: 'LiFePO4'
+};
+export const FEED_KINDS = ['battery', 'mains', 'none'] as const;
+export type FeedKind = (typeof FEED_KINDS)[number];
+export const FEED_LABELS: Record<FeedKind, string> = { battery: 'Battery', mains: 'Mains', none: 'None' };

@@ -130,6 +130,18 @@ export const ROUTES: Row[] = [
 	row('PATCH',  '/api/projects/[pid]/receivers/[id]',                 [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id }, body: { name: 'Renamed', version: 1 } })),
 	row('DELETE', '/api/projects/[pid]/receivers/[id]',                 [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.receiver()).id } })),
 	row('POST',   '/api/projects/[pid]/receivers/[id]/assign',          [200, 200, 403, 403, 404, 401, 401], (c) => ({ params: { id: c.base.receiverId }, body: { apply: false } })),
+	row('GET',    '/api/projects/[pid]/pack-types',                     [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/pack-types',                     [201, 201, 403, 403, 404, 401, 401], () => ({ body: PACK_BODY })),
+	row('GET',    '/api/projects/[pid]/pack-types/[id]',                [200, 200, 200, 200, 404, 401, 401], async (c) => ({ params: { id: (await made(c, '/pack-types', PACK_BODY)).id } })),
+	row('PATCH',  '/api/projects/[pid]/pack-types/[id]',                [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await made(c, '/pack-types', PACK_BODY)).id }, body: { onHand: 9, version: 1 } })),
+	row('DELETE', '/api/projects/[pid]/pack-types/[id]',                [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await made(c, '/pack-types', PACK_BODY)).id }, query: 'version=1' })),
+	row('GET',    '/api/projects/[pid]/circuits',                       [200, 200, 200, 200, 404, 401, 401]),
+	row('POST',   '/api/projects/[pid]/circuits',                       [201, 201, 403, 403, 404, 401, 401], () => ({ body: CIRCUIT_BODY })),
+	row('GET',    '/api/projects/[pid]/circuits/[id]',                  [200, 200, 200, 200, 404, 401, 401], async (c) => ({ params: { id: (await made(c, '/circuits', CIRCUIT_BODY)).id } })),
+	row('PATCH',  '/api/projects/[pid]/circuits/[id]',                  [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await made(c, '/circuits', CIRCUIT_BODY)).id }, body: { breakerA: 32, version: 1 } })),
+	row('DELETE', '/api/projects/[pid]/circuits/[id]',                  [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await made(c, '/circuits', CIRCUIT_BODY)).id } })),
+	row('GET',    '/api/projects/[pid]/power',                          [200, 200, 200, 200, 404, 401, 401]),
+	row('PATCH',  '/api/projects/[pid]/power',                          [200, 200, 403, 403, 404, 401, 401], (c) => ({ body: { dayStart: '07:30', version: c.projectVersion() } })),
 	row('GET',    '/api/projects/[pid]/revisions',                      [200, 200, 200, 200, 404, 401, 401]),
 	row('POST',   '/api/projects/[pid]/revisions',                      [201, 201, 403, 403, 404, 401, 401], () => ({ body: { note: 'authz probe' } })),
 	row('GET',    '/api/projects/[pid]/revisions/[n]',                  [200, 200, 200, 200, 404, 401, 401], () => ({ params: { n: 1 } })),
@@ -141,6 +153,7 @@ export const ROUTES: Row[] = [
 	row('GET',    '/api/projects/[pid]/sheets/patch.pdf',               [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/sheets/labels.pdf',              [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/sheets/radio.pdf',               [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/sheets/power.pdf',               [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/export.csv',                     [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/export.json',                    [200, 200, 200, 200, 404, 401, 401]),
 	// a preview (no apply): 200 with what it would change, nothing written
@@ -178,6 +191,7 @@ export const PAGES: Row[] = [
 	row('GET',  '/projects/[id]/types',                                 [200, 200, 200, 200, 404, 303, 303]),
 	row('GET',  '/projects/[id]/radio',                                 [200, 200, 200, 200, 404, 303, 303]),
 	row('GET',  '/projects/[id]/fixtures/[n]',                          [200, 200, 200, 200, 404, 303, 303], () => ({ params: { n: 1 } })),
+	row('GET',  '/projects/[id]/power',                                 [200, 200, 200, 200, 404, 303, 303]),
 	row('GET',  '/projects/[id]/import',                                [200, 200, 200, 200, 404, 303, 303])
 ];
 
@@ -194,6 +208,16 @@ export const TYPE_BODY = {
 		}
 	]
 };
+
+export const PACK_BODY = { name: 'Probe pack', chemistry: 'li-ion', cells: 4, ampHours: 6.8, maxCurrentA: 10 };
+export const CIRCUIT_BODY = { name: 'Probe circuit', volts: 230, breakerA: 16 };
+
+/** Creates a row through the API as the project's owner (pack types, circuits). */
+async function made(c: Ctx, path: string, body: unknown): Promise<{ id: number }> {
+	const res = await c.owner.post(`/api/projects/${c.pid}${path}`, body);
+	if (res.status !== 201) throw new Error(`setup: ${path} answered ${res.status}: ${await res.text()}`);
+	return res.json();
+}
 
 function photo(c: Ctx) {
 	return c.fixture().then(async (f) => ({ params: { id: f.id, photoId: (await c.photo(f.id)).id } }));

@@ -41,6 +41,13 @@ export const controlInput = z.discriminatedUnion('kind', [
 	z.strictObject({ kind: z.literal('manual') })
 ]);
 
+// What powers the fixture (issue 15): a pack type, a circuit, or nothing planned yet.
+export const feedInput = z.discriminatedUnion('kind', [
+	z.strictObject({ kind: z.literal('battery'), packTypeId: id }),
+	z.strictObject({ kind: z.literal('mains'), circuitId: id }),
+	z.strictObject({ kind: z.literal('none') })
+]);
+
 export const lookInput = z.strictObject({
 	hue: z.number().min(0).max(360).nullable().optional(),
 	saturation: z.number().min(0).max(100).nullable().optional(),
@@ -61,7 +68,8 @@ const fields = {
 	notes: z.string().max(5000),
 	state: z.enum(FIXTURE_STATES),
 	look: lookInput,
-	control: controlInput
+	control: controlInput,
+	feed: feedInput
 };
 
 export const fixtureCreate = z.strictObject({
@@ -77,7 +85,8 @@ export const fixtureCreate = z.strictObject({
 	notes: fields.notes.default(''),
 	state: fields.state.default('planned'),
 	look: fields.look.default({}),
-	control: fields.control.default({ kind: 'manual' })
+	control: fields.control.default({ kind: 'manual' }),
+	feed: fields.feed.default({ kind: 'none' })
 });
 
 export const fixtureCreateList = z.array(fixtureCreate).min(1, 'Send at least one fixture.').max(5000);
@@ -96,6 +105,7 @@ const patchFields = {
 	state: fields.state.optional(),
 	look: fields.look.optional(),
 	control: fields.control.optional(),
+	feed: fields.feed.optional(),
 	version: z.int().positive()
 };
 
@@ -128,6 +138,7 @@ export const autopatchInput = z.strictObject({
 	apply: z.boolean().default(false)
 });
 
+export type FeedInput = z.output<typeof feedInput>;
 export type ControlInput = z.output<typeof controlInput>;
 export type FixtureCreate = z.output<typeof fixtureCreate>;
 export type FixturePatch = z.output<typeof fixturePatch>;

@@ -41,7 +41,14 @@ export const modeInput = z
 	.strictObject({
 		id: z.int().positive().optional(),
 		name: z.string().trim().min(1, 'Name the mode.').max(80),
-		channels: z.array(channelInput).max(512)
+		channels: z.array(channelInput).max(512),
+		// power (issue 15): draw at full output and the accepted input voltage
+		watts: z.number().finite().min(0).max(100000).nullable().optional(),
+		inputVolts: z
+			.strictObject({ min: z.number().finite().min(0).max(1000), max: z.number().finite().min(0).max(1000) })
+			.refine((v) => v.min <= v.max, { message: 'The lowest input voltage is above the highest.', path: ['min'] })
+			.nullable()
+			.optional()
 	})
 	.superRefine((mode, ctx) => {
 		// one slot map per DMX break: break 2's slot 1 is not break 1's slot 1
@@ -129,6 +136,8 @@ export const typeCreate = z.strictObject({
 	maker: z.string().trim().min(1, 'Name the maker.').max(120),
 	model: z.string().trim().min(1, 'Name the model.').max(120),
 	notes: z.string().max(5000).default(''),
+	// share of full draw at zero intensity (electronics, fan); common practice about 0.1
+	drawFloor: z.number().finite().min(0).max(1).default(0.1),
 	modes: modesList
 });
 
@@ -136,6 +145,7 @@ export const typePatch = z.strictObject({
 	maker: z.string().trim().min(1).max(120).optional(),
 	model: z.string().trim().min(1).max(120).optional(),
 	notes: z.string().max(5000).optional(),
+	drawFloor: z.number().finite().min(0).max(1).optional(),
 	modes: modesList.optional(),
 	version: z.int().positive()
 });

@@ -1,7 +1,9 @@
-import { eq } from 'drizzle-orm';
+import { and, eq, inArray } from 'drizzle-orm';
 import { hashPassword } from './auth/password';
 import type { Db } from './db/index';
 import {
+	circuits,
+	packTypes,
 	fixtureTypes,
 	fixtures,
 	memberships,
@@ -42,7 +44,12 @@ const CCT = { min: 2000, max: 10000, unit: 'K' };
 const HUE = { min: 0, max: 360, unit: '°' };
 const PCT = { min: 0, max: 100, unit: '%' };
 
-const TYPES: { maker: string; model: string; notes: string; modes: { name: string; channels: Channel[] }[] }[] = [
+const TYPES: {
+	maker: string;
+	model: string;
+	notes: string;
+	modes: { name: string; channels: Channel[]; inputVolts?: { min: number; max: number } }[];
+}[] = [
 	{
 		maker: 'Hollin & Vey',
 		model: 'Skiff Panel 60',
@@ -112,7 +119,11 @@ const TYPES: { maker: string; model: string; notes: string; modes: { name: strin
 		model: 'Lantern Ball 40',
 		notes: 'China-ball style soft source, 40 cm.',
 		modes: [
-			{ name: 'Dimmer 16-bit', channels: [{ offset: 1, parameter: 'intensity', bits: 16, ...PCT }] },
+			{
+				name: 'Dimmer 16-bit',
+				channels: [{ offset: 1, parameter: 'intensity', bits: 16, ...PCT }],
+				inputVolts: { min: 12, max: 28 }
+			},
 			{
 				name: 'CCT 8-bit',
 				channels: [
@@ -222,7 +233,17 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 				.returning()
 				.get();
 			t.modes.forEach((m, mi) => {
-				const mode = tx.insert(modes).values({ typeId: type.id, name: m.name, position: mi }).returning().get();
+				const mode = tx
+					.insert(modes)
+					.values({
+						typeId: type.id,
+						name: m.name,
+						position: mi,
+						inputVoltsMin: m.inputVolts?.min ?? null,
+						inputVoltsMax: m.inputVolts?.max ?? null
+					})
+					.returning()
+					.get();
 				m.channels.forEach((c, ci) => {
 					tx.insert(modeChannels)
 						.values({
@@ -422,10 +443,114 @@ export async function seedDemo(database: Db): Promise<{ projectId: number; creat
 			'Lantern Ball 40/CCT 8-bit',
 			'HAND LANTERN',
 			{ controlKind: 'manual' },
-			{ position: 'Carried by cast', groupName: 'Props', watts: 20, notes: 'Set on the unit: 2700 K, 40 %.' }
+			// no wattage on purpose: the Power page asks for one (no-power-data)
+			{ position: 'Carried by cast', groupName: 'Props', notes: 'Set on the unit: 2700 K, 40 %.' }
 		);
+
+		seedPower(tx, project.id);
 
 		return project.id;
 	});
 	return { projectId, created: true };
+}
+
+type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+
+// Power for a night shoot (16:00 to 02:00): invented, generic packs and circuits chosen so the
+// Power page shows each warning once and one battery shortfall.
+function seedPower(tx: Tx, projectId: number): void {
+	const pack = (values: Omit<typeof packTypes.$inferInsert, 'projectId'>) =>
+		tx
+			.insert(packTypes)
+			.values({ projectId, ...values })
+			.returning()
+			.get().id;
+	const circuit = (values: Omit<typeof circuits.$inferInsert, 'projectId'>) =>
+		tx
+			.insert(circuits)
+			.values({ projectId, ...values })
+			.returning()
+			.get().id;
+	const feed = (labels: string[], cols: { packTypeId?: number; circuitId?: number }) =>
+		tx
+			.update(fixtures)
+			.set(cols)
+			.where(and(eq(fixtures.projectId, projectId), inArray(fixtures.label, labels)))
+			.run();
+	const range = (prefix: string, n: number) => Array.from({ length: n }, (_, i) => `${prefix} ${i + 1}`);
+	tx.update(projects).set({ dayStart: '16:00', dayWrap: '02:00' }).where(eq(projects.id, projectId)).run();
+
+	// ten deck tubes on 98 Wh packs: the second swap round finds too few charged (a shortfall)
+	const deck = pack({
+		name: 'Deck 4-cell Li-ion 98 Wh',
+		chemistry: 'li-ion',
+		cells: 4,
+		wattHours: 98,
+		maxCurrentA: 10,
+		onHand: 24,
+		chargeHours: 3,
+		chargers: 1,
+		chargerBays: 4
+	});
+	feed(range('DECK TUBE', 10), { packTypeId: deck });
+	const stern = pack({
+		name: 'Stern 6-cell Li-ion 4.5 Ah',
+		chemistry: 'li-ion',
+		cells: 6,
+		ampHours: 4.5,
+		maxCurrentA: 8,
+		onHand: 36,
+		chargeHours: 2,
+		chargers: 3,
+		chargerBays: 4
+	});
+	feed(range('STERN', 6), { packTypeId: stern });
+	// a small pack under a 90 W panel: more current than it gives (over-current)
+	const spare = pack({
+		name: 'Spare 4-cell LiPo 2.2 Ah',
+		chemistry: 'lipo',
+		cells: 4,
+		ampHours: 2.2,
+		maxCurrentA: 5,
+		onHand: 40,
+		chargeHours: 1,
+		chargers: 2,
+		chargerBays: 4
+	});
+	feed(['STERN SPARE'], { packTypeId: spare });
+	// 8 cells reach 33.6 V charged, above the ball's 28 V input (voltage-range); 288 Wh (cargo only)
+	const block = pack({
+		name: 'Block 8-cell Li-ion 10 Ah',
+		chemistry: 'li-ion',
+		cells: 8,
+		ampHours: 10,
+		maxCurrentA: 20,
+		onHand: 3,
+		chargeHours: 6,
+		chargers: 1,
+		chargerBays: 1
+	});
+	feed(['WHEEL BALL A'], { packTypeId: block });
+	// 150 Wh: flies only with the airline's approval
+	const quay = pack({
+		name: 'Quay 4-cell Li-ion 150 Wh',
+		chemistry: 'li-ion',
+		cells: 4,
+		wattHours: 150,
+		maxCurrentA: 12,
+		onHand: 20,
+		chargeHours: 3.5,
+		chargers: 2,
+		chargerBays: 4
+	});
+	feed(['WHEEL BALL B', ...range('QUAY BALL', 4), 'HAND LANTERN'], { packTypeId: quay });
+
+	// 13 × 90 W on a 6 A breaker: 5.65 A, above 80 % (circuit-over-80)
+	const wheel = circuit({ name: 'Wheelhouse ring (B6)', volts: 230, breakerA: 6, powerFactor: 0.9 });
+	feed([...range('WHEEL', 12), 'WHEEL 1 FOLLOW'], { circuitId: wheel });
+	// 2400 W on a 10 A breaker: 11.6 A, over the breaker (circuit-over-100)
+	const saloon = circuit({ name: 'Saloon practicals (B10)', volts: 230, breakerA: 10, powerFactor: 0.9 });
+	feed(['PRACTICALS'], { circuitId: saloon });
+	const bank = circuit({ name: 'Quay distro, bank stands', volts: 230, breakerA: 16, powerFactor: 0.9 });
+	feed(range('BANK TUBE', 3), { circuitId: bank });
 }

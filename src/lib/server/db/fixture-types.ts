@@ -45,8 +45,21 @@ function writeChannels(modeId: number, mode: ModeInput): void {
 		.run();
 }
 
+/** Power data of a mode (issue 15): draw at full and accepted input voltage. */
+function modePower(mode: ModeInput) {
+	return {
+		watts: mode.watts ?? null,
+		inputVoltsMin: mode.inputVolts?.min ?? null,
+		inputVoltsMax: mode.inputVolts?.max ?? null
+	};
+}
+
 function insertMode(typeId: number, mode: ModeInput, position: number): void {
-	const row = db().insert(modes).values({ typeId, name: mode.name, position }).returning({ id: modes.id }).get();
+	const row = db()
+		.insert(modes)
+		.values({ typeId, name: mode.name, position, ...modePower(mode) })
+		.returning({ id: modes.id })
+		.get();
 	writeChannels(row.id, mode);
 }
 
@@ -69,7 +82,7 @@ export function createType(projectId: number, userId: string, input: TypeCreate)
 		}
 		const row = db()
 			.insert(fixtureTypes)
-			.values({ projectId, maker: input.maker, model: input.model, notes: input.notes })
+			.values({ projectId, maker: input.maker, model: input.model, notes: input.notes, drawFloor: input.drawFloor })
 			.returning()
 			.get();
 		input.modes.forEach((m, i) => insertMode(row.id, m, i));
@@ -131,7 +144,11 @@ export function updateType(projectId: number, userId: string, id: number, patch:
 					.run();
 			modeList.forEach((m, position) => {
 				if (m.id === undefined) return insertMode(id, m, position);
-				db().update(modes).set({ name: m.name, position }).where(eq(modes.id, m.id)).run();
+				db()
+					.update(modes)
+					.set({ name: m.name, position, ...modePower(m) })
+					.where(eq(modes.id, m.id))
+					.run();
 				writeChannels(m.id, m);
 			});
 		}

@@ -16,6 +16,7 @@ import { insertMany } from './bulk';
 import { db } from './index';
 import {
 	controlColumns,
+	feedColumns,
 	controlOf,
 	fixtureShape,
 	listTypes,
@@ -26,6 +27,7 @@ import {
 } from './patch';
 import { fixtures, receivers, universes, uploads } from './schema';
 import { detachFixture } from './universes';
+import { feedTargets } from './power';
 import type { AutopatchInput, FixtureCreate, FixturePatch } from '../../schemas/fixture';
 
 type Path = (string | number)[];
@@ -37,6 +39,8 @@ interface Context {
 	universes: Map<number, number>;
 	receivers: Map<number, { name: string; count: number }>;
 	fixtures: Map<number, { number: number; kind: FixtureRow['controlKind']; leaderId: number | null }>;
+	packTypes: Set<number>;
+	circuits: Set<number>;
 }
 
 function loadContext(projectId: number): Context {
@@ -62,7 +66,8 @@ function loadContext(projectId: number): Context {
 		typeIds,
 		universes: new Map(u.map((x) => [x.id, x.number])),
 		receivers: new Map(r.map((x) => [x.id, { name: x.name, count: defaultChannelCount(x.protocol) }])),
-		fixtures: new Map(f.map((x) => [x.id, { number: x.number, kind: x.kind, leaderId: x.leaderId }]))
+		fixtures: new Map(f.map((x) => [x.id, { number: x.number, kind: x.kind, leaderId: x.leaderId }])),
+		...feedTargets(projectId)
 	};
 }
 
@@ -87,6 +92,10 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 	const mode = ctx.modes.get(f.modeId);
 	if (!mode) at(['modeId'], 'No such mode in this project.');
 	else if (mode.typeId !== f.typeId) at(['modeId'], 'This mode belongs to another fixture type.');
+	if (f.feed.kind === 'battery' && !ctx.packTypes.has(f.feed.packTypeId))
+		at(['feed', 'packTypeId'], 'No such pack type in this project.');
+	if (f.feed.kind === 'mains' && !ctx.circuits.has(f.feed.circuitId))
+		at(['feed', 'circuitId'], 'No such circuit in this project.');
 	const c = f.control;
 	const params = new Set(mode?.mode.channels.map((ch) => ch.parameter) ?? []);
 	switch (c.kind) {
@@ -173,7 +182,8 @@ function columnsOf(f: FixtureCreate) {
 		lookSaturation: f.look.saturation ?? null,
 		lookIntensity: f.look.intensity ?? null,
 		lookCct: f.look.cct ?? null,
-		...controlColumns(f.control)
+		...controlColumns(f.control),
+		...feedColumns(f.feed)
 	};
 }
 
@@ -192,7 +202,8 @@ function asInput(s: FixtureShape): FixtureCreate {
 		notes: s.notes,
 		state: s.state,
 		look: s.look,
-		control: s.control as FixtureCreate['control']
+		control: s.control as FixtureCreate['control'],
+		feed: s.feed ?? { kind: 'none' }
 	};
 }
 
@@ -337,7 +348,10 @@ function applyChanges(projectId: number, userId: string, changes: FixtureChange[
 	// a type change without a mode keeps a mode of the wrong type, which the check reports;
 	// only what the change touches is checked, so legacy rows can still take a state or notes change
 	const issues = merged.flatMap((m, i) =>
-		m.change.control !== undefined || m.change.modeId !== undefined || m.change.typeId !== undefined
+		m.change.control !== undefined ||
+		m.change.modeId !== undefined ||
+		m.change.typeId !== undefined ||
+		m.change.feed !== undefined
 			? check(ctx, m.next, many ? ['fixtures', i] : [], m.before.id)
 			: []
 	);

@@ -4,6 +4,7 @@ import {
 	defaultChannelCount,
 	breakFootprints,
 	modeSlotCount,
+	type Feed,
 	type FixtureControl,
 	type Mode
 } from '../../patch/index';
@@ -115,7 +116,22 @@ export function fixtureShape(f: FixtureRow): FixtureShape {
 		state: f.state,
 		version: f.version,
 		look: { hue: f.lookHue, saturation: f.lookSaturation, intensity: f.lookIntensity, cct: f.lookCct },
-		control: controlOf(f)
+		control: controlOf(f),
+		feed: feedOf(f)
+	};
+}
+
+export function feedOf(f: Pick<FixtureRow, 'packTypeId' | 'circuitId'>): Feed {
+	if (f.packTypeId != null) return { kind: 'battery', packTypeId: f.packTypeId };
+	if (f.circuitId != null) return { kind: 'mains', circuitId: f.circuitId };
+	return { kind: 'none' };
+}
+
+/** The feed columns a feed sets; the other is cleared. */
+export function feedColumns(feed: Feed) {
+	return {
+		packTypeId: feed.kind === 'battery' ? feed.packTypeId : null,
+		circuitId: feed.kind === 'mains' ? feed.circuitId : null
 	};
 }
 
@@ -194,7 +210,14 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 		const mode = { id: m.id, name: m.name, channels };
 		const breaks = breakFootprints(mode);
 		// a one-break mode keeps its old shape; `breaks` only appears when there is more than one
-		list.push({ ...mode, slots: modeSlotCount(mode), ...(breaks.length > 1 ? { breaks } : {}) });
+		list.push({
+			...mode,
+			slots: modeSlotCount(mode),
+			...(breaks.length > 1 ? { breaks } : {}),
+			watts: m.watts,
+			inputVolts:
+				m.inputVoltsMin != null && m.inputVoltsMax != null ? { min: m.inputVoltsMin, max: m.inputVoltsMax } : null
+		});
 		modesByType.set(m.typeId, list);
 	}
 	return typeRows.map((t) => ({
@@ -202,6 +225,7 @@ export function listTypes(projectId: number, typeIds?: number[]): TypeShape[] {
 		maker: t.maker,
 		model: t.model,
 		notes: t.notes,
+		drawFloor: t.drawFloor,
 		version: t.version,
 		modes: modesByType.get(t.id) ?? []
 	}));

@@ -14,7 +14,15 @@ import {
 // API shapes and the UI.
 
 // The vocabularies live in the client-safe src/lib/vocab.ts; re-exported for the server's imports.
-import { CONTROL_KINDS, FIXTURE_STATES, RC_PROTOCOLS, ROLES, SIGNOFF_DECISIONS, TRANSPORTS } from '../../vocab';
+import {
+	CHEMISTRIES,
+	CONTROL_KINDS,
+	FIXTURE_STATES,
+	RC_PROTOCOLS,
+	ROLES,
+	SIGNOFF_DECISIONS,
+	TRANSPORTS
+} from '../../vocab';
 export { CONTROL_KINDS, FIXTURE_STATES, RC_PROTOCOLS, ROLES, TRANSPORTS };
 export type { ControlKind, FixtureState, RcProtocol, Role, Transport } from '../../vocab';
 export const DECISIONS = SIGNOFF_DECISIONS;
@@ -116,6 +124,10 @@ export const projects = sqliteTable('project', {
 	notes: text('notes').notNull().default(''),
 	// 1: paper universe 1 is Art-Net port-address 0 (the usual on-set convention); 0: they are equal
 	artnetOffset: integer('artnet_offset').notNull().default(1),
+	// power planning (issue 15): share of a pack's rated energy to plan on, and the shooting day
+	usableFraction: real('usable_fraction').notNull().default(0.85),
+	dayStart: text('day_start').notNull().default('08:00'),
+	dayWrap: text('day_wrap').notNull().default('20:00'),
 	version: version(),
 	createdAt: createdAt(),
 	updatedAt: updatedAt()
@@ -185,6 +197,8 @@ export const fixtureTypes = sqliteTable(
 		maker: text('maker').notNull(),
 		model: text('model').notNull(),
 		notes: text('notes').notNull().default(''),
+		// fraction of full draw at zero intensity (electronics, fan); common practice 0.1
+		drawFloor: real('draw_floor').notNull().default(0.1),
 		version: version(),
 		createdAt: createdAt(),
 		updatedAt: updatedAt()
@@ -200,7 +214,11 @@ export const modes = sqliteTable(
 			.notNull()
 			.references(() => fixtureTypes.id, { onDelete: 'cascade' }),
 		name: text('name').notNull(),
-		position: integer('position').notNull().default(0)
+		position: integer('position').notNull().default(0),
+		// draw at full output and accepted input voltage; all optional
+		watts: real('watts'),
+		inputVoltsMin: real('input_volts_min'),
+		inputVoltsMax: real('input_volts_max')
 	},
 	(t) => [index('mode_type').on(t.typeId)]
 );
@@ -306,6 +324,9 @@ export const fixtures = sqliteTable(
 		lookSaturation: real('look_saturation'),
 		lookIntensity: real('look_intensity'),
 		lookCct: integer('look_cct'),
+		// feed: a pack type, a circuit, or none
+		packTypeId: integer('pack_type_id').references((): AnySQLiteColumn => packTypes.id, { onDelete: 'restrict' }),
+		circuitId: integer('circuit_id').references((): AnySQLiteColumn => circuits.id, { onDelete: 'restrict' }),
 		version: version(),
 		createdAt: createdAt(),
 		updatedAt: updatedAt()
@@ -316,8 +337,57 @@ export const fixtures = sqliteTable(
 		index('fixture_receiver').on(t.receiverId),
 		index('fixture_leader').on(t.leaderId),
 		index('fixture_by_type').on(t.typeId),
-		index('fixture_by_mode').on(t.modeId)
+		index('fixture_by_mode').on(t.modeId),
+		index('fixture_pack_type').on(t.packTypeId),
+		index('fixture_circuit').on(t.circuitId)
 	]
+);
+
+// ── Power (issue 15) ────────────────────────────────────────────────────────
+
+export const packTypes = sqliteTable(
+	'pack_type',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		projectId: integer('project_id')
+			.notNull()
+			.references(() => projects.id, { onDelete: 'cascade' }),
+		name: text('name').notNull(),
+		chemistry: text('chemistry', { enum: CHEMISTRIES }).notNull(),
+		cells: integer('cells').notNull(),
+		// one of the two is given; the other derives from the nominal voltage
+		ampHours: real('amp_hours'),
+		wattHours: real('watt_hours'),
+		maxCurrentA: real('max_current_a').notNull(),
+		onHand: integer('on_hand').notNull().default(0),
+		chargeHours: real('charge_hours'),
+		chargers: integer('chargers').notNull().default(1),
+		chargerBays: integer('charger_bays').notNull().default(1),
+		notes: text('notes').notNull().default(''),
+		version: version(),
+		createdAt: createdAt(),
+		updatedAt: updatedAt()
+	},
+	(t) => [index('pack_type_project').on(t.projectId)]
+);
+
+export const circuits = sqliteTable(
+	'circuit',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		projectId: integer('project_id')
+			.notNull()
+			.references(() => projects.id, { onDelete: 'cascade' }),
+		name: text('name').notNull(),
+		volts: real('volts').notNull(),
+		breakerA: real('breaker_a').notNull(),
+		powerFactor: real('power_factor').notNull().default(0.9),
+		notes: text('notes').notNull().default(''),
+		version: version(),
+		createdAt: createdAt(),
+		updatedAt: updatedAt()
+	},
+	(t) => [index('circuit_project').on(t.projectId)]
 );
 
 // Files uploaded by the crew (fixture photos); bytes live under data/uploads/.

@@ -1,6 +1,8 @@
 import Papa from 'papaparse';
 import { formatSlots } from '../../patch/index';
 import { loadPatch } from '../db/patch';
+import { listCircuits, listPackTypes } from '../db/power';
+import { feedText } from '../power-csv';
 
 // The patch for a desk or a spreadsheet: one row per fixture. The first
 // columns are the ones the CSV import reads, so a file exported here can be
@@ -23,7 +25,8 @@ export const CSV_COLUMNS = [
 	'rc channels',
 	'slots',
 	'link group',
-	'state'
+	'state',
+	'feed'
 ] as const;
 
 // OWASP "CSV injection": a text cell starting with = + - @ tab or CR gets a leading quote.
@@ -36,6 +39,7 @@ export function toCsv(rows: (string | number)[][]): string {
 
 export function exportPatchCsv(projectId: number): string {
 	const p = loadPatch(projectId);
+	const feedNames = { packTypes: listPackTypes(projectId), circuits: listCircuits(projectId) };
 	const universes = new Map(p.universes.map((u) => [u.id, u.number]));
 	const receivers = new Map(p.receivers.map((r) => [r.id, r.name]));
 	const byId = new Map(p.fixtures.map((f) => [f.id, f]));
@@ -98,7 +102,8 @@ export function exportPatchCsv(projectId: number): string {
 			rc,
 			f.footprint ?? '',
 			f.linkGroup ?? '',
-			f.state
+			f.state,
+			feedText(f.feed, feedNames)
 		];
 	});
 	return toCsv(rows);

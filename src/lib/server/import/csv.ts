@@ -1,4 +1,6 @@
 import Papa from 'papaparse';
+import { listCircuits, listPackTypes } from '../db/power';
+import { feedText, parseFeed, sameFeed } from '../power-csv';
 import { DomainError, UnprocessableError } from '../errors';
 import { createFixtures, updateFixtures, type FixtureChange } from '../db/fixtures';
 import { db } from '../db/index';
@@ -14,7 +16,18 @@ import type { ImportIssue } from './gdtf';
 // writes and rolls them back, so what it shows is exactly what apply does.
 
 export type CsvField =
-	'number' | 'label' | 'maker' | 'model' | 'mode' | 'universe' | 'address' | 'patch' | 'position' | 'group' | 'notes';
+	| 'number'
+	| 'label'
+	| 'maker'
+	| 'model'
+	| 'mode'
+	| 'universe'
+	| 'address'
+	| 'patch'
+	| 'position'
+	| 'group'
+	| 'notes'
+	| 'feed';
 
 const SYNONYMS: Record<CsvField, string[]> = {
 	number: [
@@ -51,7 +64,8 @@ const SYNONYMS: Record<CsvField, string[]> = {
 	patch: ['patch', 'universeaddress', 'univaddress', 'univaddr', 'uaddr', 'uaddress', 'dmxpatch'],
 	position: ['position', 'pos', 'location', 'hangingposition', 'rigposition'],
 	group: ['group', 'groupname'],
-	notes: ['notes', 'note', 'comments', 'comment', 'remarks']
+	notes: ['notes', 'note', 'comments', 'comment', 'remarks'],
+	feed: ['feed', 'power', 'powerfeed']
 };
 
 /** a whole rig in one file; the import runs in multi-row statements inside one transaction */
@@ -91,6 +105,7 @@ export interface CsvRow {
 	position?: string;
 	group?: string;
 	notes?: string;
+	feed?: string;
 }
 
 /** Our own export guards cells against formula injection with a leading quote; take it back off on the way in. */
@@ -155,7 +170,7 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 		if (seen.has(num)) return bad('number', `Fixture ${num} is also on row ${seen.get(num)}.`);
 		seen.set(num, row);
 		const out: CsvRow = { row, number: num };
-		for (const f of ['label', 'maker', 'model', 'mode', 'position', 'group', 'notes'] as const) {
+		for (const f of ['label', 'maker', 'model', 'mode', 'position', 'group', 'notes', 'feed'] as const) {
 			const v = get(f);
 			if (v !== '') out[f] = v;
 		}
@@ -295,10 +310,17 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 			const typeById = new Map(types.map((t) => [t.id, t]));
 			const creates: { row: CsvRow; input: FixtureCreate }[] = [];
 			const changes: { row: CsvRow; change: FixtureChange; what: string[] }[] = [];
+			const feedNames = { packTypes: listPackTypes(projectId), circuits: listCircuits(projectId) };
 			for (const r of rows) {
 				if (badRows.has(r.row)) continue;
 				const bad = (field: string, message: string) => issues.push({ row: r.row, field, message });
 				const before = existing.get(r.number);
+				const fed = r.feed === undefined ? undefined : parseFeed(r.feed, feedNames);
+				if (fed && 'error' in fed) {
+					bad('feed', fed.error);
+					continue;
+				}
+				const feed = fed?.feed;
 				let typeId: number | undefined;
 				let modeId: number | undefined;
 				if (r.maker !== undefined || r.model !== undefined || r.mode !== undefined || !before) {
@@ -344,7 +366,8 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						position: r.position,
 						group: r.group,
 						notes: r.notes,
-						control: control ?? { kind: 'manual' }
+						control: control ?? { kind: 'manual' },
+						feed
 					});
 					if (!parsed.success) {
 						for (const i of parsed.error.issues)
@@ -383,6 +406,10 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 					if (control && !(c.kind === 'dmx' && c.universeId === control.universeId && c.address === control.address)) {
 						change.control = control;
 						what.push(`patch → ${patchText(r.universe, r.address)}`);
+					}
+					if (feed && !sameFeed(before.feed, feed)) {
+						change.feed = feed;
+						what.push(`feed → ${feedText(feed, feedNames)}`);
 					}
 					if (what.length === 0) continue;
 					changes.push({ row: r, change, what });
