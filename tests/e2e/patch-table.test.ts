@@ -1,0 +1,93 @@
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { demoProjectId } from '../helpers/revisions';
+import { newPage, patchRows, screenshot, signIn } from './helpers';
+import { demoStage } from './launch';
+
+// The patch table by keyboard and the delete of a leader, as a programmer at a desk.
+// Keyboard rules: WAI-ARIA Authoring Practices "Grid" (one tab stop, arrows, Space selects).
+
+const stage = demoStage();
+let pid: number;
+
+beforeAll(() => {
+	pid = demoProjectId(stage.server.db());
+});
+
+/** Where keyboard focus is: the grid cell or header it sits in, or outside. */
+function focusInGrid(page: Page) {
+	return page.evaluate(() => {
+		const a = document.activeElement as HTMLElement | null;
+		if (!a || !a.closest('[data-grid]')) return null;
+		const cell = a.closest<HTMLElement>('[data-cell],[data-head]');
+		return cell?.dataset.cell ?? `h:${cell?.dataset.head}`;
+	});
+}
+
+describe('the patch table by keyboard', () => {
+	it('one tab stop; Space selects three rows and keeps focus; Enter edits a label; Enter on a number opens the fixture', async () => {
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'programmer@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
+		await patchRows(page);
+		expect(await page.locator('[data-grid] [tabindex="0"]').count()).toBe(1);
+
+		await page.getByRole('button', { name: 'Show 135' }).focus();
+		await page.keyboard.press('Tab');
+		expect(await focusInGrid(page)).toBe('0:1');
+
+		for (let i = 0; i < 3; i++) {
+			if (i) await page.keyboard.press('ArrowDown');
+			await page.keyboard.press('Space');
+			expect(await focusInGrid(page)).toBe(`${i}:1`);
+		}
+		expect(await page.locator('[data-selected-count]').textContent()).toBe('3 selected');
+		for (const n of [101, 102, 103])
+			expect(await page.locator(`[data-row="${n}"]`).getAttribute('aria-selected')).toBe('true');
+		expect(await page.locator('[data-row="104"]').getAttribute('aria-selected')).toBe('false');
+
+		await page.keyboard.press('ArrowRight');
+		await page.keyboard.press('Enter');
+		await page.keyboard.press('Control+A');
+		await page.keyboard.type('WHEEL THREE');
+		await screenshot(page, 'patch-keyboard-edit');
+		await page.keyboard.press('Enter');
+		await page.locator('[data-notice]', { hasText: 'Fixture 103 saved.' }).waitFor();
+		await page.locator('[data-row="103"] [data-col="label"]', { hasText: 'WHEEL THREE' }).waitFor();
+		// the selection stays after a save, and focus comes back to the cell
+		expect(await page.locator('[data-selected-count]').textContent()).toBe('3 selected');
+		await expect.poll(() => focusInGrid(page)).toBe('2:2');
+
+		// Tab leaves the grid in one step
+		await page.keyboard.press('Tab');
+		expect(await focusInGrid(page)).toBeNull();
+		await page.keyboard.press('Shift+Tab');
+		expect(await focusInGrid(page)).toBe('2:2');
+
+		await page.keyboard.press('ArrowLeft');
+		await page.keyboard.press('Enter');
+		await page.waitForURL(`**/projects/${pid}/fixtures/103`);
+	});
+
+	it('deleting a leader names its follower and sets it to manual only when asked', async () => {
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'programmer@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
+		await patchRows(page);
+		expect(await page.locator('[data-row="115"] [data-col="control"]').textContent()).toContain('follows 101');
+		await page.getByLabel('Select fixture 101').check();
+		await page.getByRole('button', { name: 'Delete', exact: true }).click();
+		const dialog = page.getByRole('dialog');
+		expect(await dialog.locator('[data-followers]').textContent()).toMatch(/115\s+WHEEL 1 FOLLOW — follows 101/);
+		await screenshot(page, 'patch-delete-leader');
+		await dialog.getByRole('button', { name: 'Cancel' }).click();
+		expect(await page.locator('[data-row="101"]').count()).toBe(1);
+
+		await page.getByRole('button', { name: 'Delete', exact: true }).click();
+		await page.getByRole('dialog').getByRole('button', { name: 'Set them to manual and delete' }).click();
+		await page.getByRole('button', { name: 'Delete now' }).click();
+		await page.locator('[data-notice]', { hasText: 'Deleted 1 fixture(s); 1 follower(s) set to manual.' }).waitFor();
+		expect(await page.locator('[data-row="101"]').count()).toBe(0);
+		expect(await page.locator('[data-row="115"] [data-col="control"]').textContent()).toContain('manual');
+	});
+});
