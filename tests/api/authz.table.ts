@@ -99,6 +99,7 @@ export const ROUTES: Row[] = [
 	row('DELETE', '/api/projects/[pid]',                                [204, 403, 403, 403, 404, 401, 401], async (c) => ({ params: { pid: await c.freshProject() } })),
 	row('GET',    '/api/projects/[pid]/patch',                          [200, 200, 200, 200, 404, 401, 401]),
 	row('GET',    '/api/projects/[pid]/conflicts',                      [200, 200, 200, 200, 404, 401, 401]),
+	row('GET',    '/api/projects/[pid]/events',                         [200, 200, 200, 200, 404, 401, 401], () => ({ query: 'once=1' })),
 	row('GET',    '/api/projects/[pid]/members',                        [200, 200, 200, 200, 404, 401, 401]),
 	row('POST',   '/api/projects/[pid]/members',                        [201, 403, 403, 403, 404, 401, 401], (c) => ({ body: { email: `invitee-${c.seq()}@test.example`, role: 'viewer' } })),
 	row('PATCH',  '/api/projects/[pid]/members/[userId]',               [200, 403, 403, 403, 404, 401, 401], async (c) => ({ params: { userId: (await c.member()).userId }, body: { role: 'electrician' } })),

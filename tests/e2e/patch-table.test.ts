@@ -90,4 +90,23 @@ describe('the patch table by keyboard', () => {
 		expect(await page.locator('[data-row="101"]').count()).toBe(0);
 		expect(await page.locator('[data-row="115"] [data-col="control"]').textContent()).toContain('manual');
 	});
+
+	it('an electrician on a phone marks a unit addressed; the programmer’s open table shows it without a reload', async () => {
+		const desk = await newPage(stage.browser);
+		await signIn(desk, stage.server.url, 'programmer@demo.test');
+		await desk.goto(`${stage.server.url}/projects/${pid}/patch`);
+		await patchRows(desk);
+		await desk.evaluate(() => ((window as unknown as { stayed: boolean }).stayed = true));
+		expect(await desk.locator('[data-row="112"] [data-col="state"]').textContent()).toContain('planned');
+
+		const phone = await newPage(stage.browser, 390, 844, true);
+		await signIn(phone, stage.server.url, 'electrician@demo.test');
+		await phone.goto(`${stage.server.url}/projects/${pid}/fixtures/112`);
+		await phone.getByRole('button', { name: 'addressed' }).click();
+		await phone.locator('[data-state="addressed"]').waitFor();
+
+		await desk.locator('[data-row="112"] [data-state="addressed"]').waitFor({ timeout: 5000 });
+		expect(await desk.evaluate(() => (window as unknown as { stayed?: boolean }).stayed)).toBe(true);
+		await screenshot(desk, 'patch-live-update');
+	});
 });
