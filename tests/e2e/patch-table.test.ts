@@ -159,7 +159,10 @@ describe('axe-core (WCAG 2.1 A/AA) on the patch grid and a universe map', () => 
 				const axe = (
 					window as unknown as {
 						axe: {
-							run: (c: unknown, o: unknown) => Promise<{ violations: { id: string; nodes: { target: string[] }[] }[] }>;
+							run: (
+								c: unknown,
+								o: unknown
+							) => Promise<{ violations: { id: string; nodes: { target: string[]; failureSummary?: string }[] }[] }>;
 						};
 					}
 				).axe;
