@@ -301,6 +301,32 @@ describe('deleting fixtures', () => {
 		expect(row(follower.id)).toMatchObject({ controlKind: 'manual', leaderId: null, version: 2 });
 		expect((await as.viewer.get(`${base()}/fixtures/${leader.id}`)).status).toBe(404);
 	});
+
+	it('a selection goes in one request: a follower outside it refuses the batch and nothing is deleted; detach makes it manual', async () => {
+		const leader = await create();
+		const other = await create();
+		const insideFollower = await create({ control: { kind: 'follow', leaderId: leader.id } });
+		const outsideFollower = await create({ control: { kind: 'follow', leaderId: leader.id } });
+		const ids = [leader.id, other.id, insideFollower.id];
+		const refused = await as.programmer.json('DELETE', `${base()}/fixtures`, { ids });
+		expect(refused.status).toBe(409);
+		const body = await refused.json();
+		expect(body.error.message).toContain(`${outsideFollower.number} follows ${leader.number}`);
+		expect(body.usedBy).toEqual([expect.objectContaining({ id: outsideFollower.id })]);
+		for (const id of ids) expect(row(id)).toBeDefined();
+		expect((await as.electrician.json('DELETE', `${base()}/fixtures`, { ids })).status).toBe(403);
+		const bad = await as.programmer.json('DELETE', `${base()}/fixtures`, { ids: [other.id, other.id] });
+		expect(bad.status).toBe(400);
+		const unknown = await as.programmer.json('DELETE', `${base()}/fixtures`, { ids: [other.id, 99999999] });
+		expect(unknown.status).toBe(404);
+		expect(row(other.id)).toBeDefined();
+
+		const done = await as.programmer.json('DELETE', `${base()}/fixtures`, { ids, detach: true });
+		expect(done.status).toBe(200);
+		expect(await done.json()).toEqual({ deleted: ids, detached: [outsideFollower.id] });
+		for (const id of ids) expect(row(id)).toBeUndefined();
+		expect(row(outsideFollower.id)).toMatchObject({ controlKind: 'manual', leaderId: null });
+	});
 });
 
 describe('autopatch', () => {

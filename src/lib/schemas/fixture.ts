@@ -138,6 +138,16 @@ export const autopatchInput = z.strictObject({
 	apply: z.boolean().default(false)
 });
 
+/** The table's Delete of a selection: one request, all or nothing. */
+export const fixtureBulkDelete = z.strictObject({
+	ids: z
+		.array(id)
+		.min(1, 'Choose at least one fixture.')
+		.max(20000)
+		.refine((l) => new Set(l).size === l.length, 'A fixture is listed twice.'),
+	detach: z.boolean().default(false)
+});
+
 export type FeedInput = z.output<typeof feedInput>;
 export type ControlInput = z.output<typeof controlInput>;
 export type FixtureCreate = z.output<typeof fixtureCreate>;

@@ -423,6 +423,59 @@ export function deleteFixture(projectId: number, userId: string, id: number, det
 }
 
 /**
+ * Several fixtures in one transaction (the table's Delete): followers that are being deleted too
+ * do not hold their leader; any other follower refuses the whole batch unless `detach`.
+ * Returns the deleted ids and the photo files to remove.
+ */
+export function deleteFixtures(
+	projectId: number,
+	userId: string,
+	ids: number[],
+	detach: boolean
+): { deleted: number[]; detached: number[]; files: string[] } {
+	return db().transaction(() => {
+		const rows = db()
+			.select()
+			.from(fixtures)
+			.where(and(eq(fixtures.projectId, projectId), inArray(fixtures.id, ids)))
+			.all();
+		const found = new Set(rows.map((r) => r.id));
+		const missing = ids.filter((id) => !found.has(id));
+		if (missing.length > 0) throw new NotFoundError(`No such fixture in this project: id ${missing.join(', ')}.`);
+		const followers = db()
+			.select()
+			.from(fixtures)
+			.where(and(eq(fixtures.projectId, projectId), inArray(fixtures.leaderId, ids)))
+			.orderBy(asc(fixtures.number))
+			.all()
+			.filter((f) => !found.has(f.id));
+		if (followers.length > 0 && !detach) {
+			const numberOf = new Map(rows.map((r) => [r.id, r.number]));
+			const leaders = [...new Set(followers.map((f) => numberOf.get(f.leaderId!)))].join(', ');
+			throw new InUseError(
+				`${followers.length === 1 ? 'Fixture' : 'Fixtures'} ${followers.map((f) => f.number).join(', ')} ${followers.length === 1 ? 'follows' : 'follow'} ${leaders}; nothing was deleted. Choose to set ${followers.length === 1 ? 'it' : 'them'} to manual, or delete ${followers.length === 1 ? 'it' : 'them'} too.`,
+				followers.map((f) => ({ id: f.id, number: f.number, label: f.label, leaderId: f.leaderId }))
+			);
+		}
+		const numberOf = new Map(rows.map((r) => [r.id, r.number]));
+		for (const f of followers) detachFixture(projectId, userId, f, `leader ${numberOf.get(f.leaderId!)} deleted`);
+		const files = db()
+			.select({ storedName: uploads.storedName })
+			.from(uploads)
+			.where(inArray(uploads.fixtureId, ids))
+			.all();
+		for (const row of rows) {
+			const before = fixtureShape(row);
+			recordAudit({ projectId, userId, action: 'fixture.delete', entity: 'fixture', entityId: row.id, before });
+		}
+		// leader_id is ON DELETE RESTRICT, checked row by row: unhook the chosen ones from each other first
+		db().update(fixtures).set({ leaderId: null }).where(inArray(fixtures.id, ids)).run();
+		db().delete(fixtures).where(inArray(fixtures.id, ids)).run();
+		return { deleted: ids, detached: followers.map((f) => f.id), files: files.map((f) => f.storedName) };
+	});
+}
+
+/**
  * The engine's first-fit placement into one universe around what is already patched there
  * (the fixtures being placed do not count as occupying their old slots).
  */

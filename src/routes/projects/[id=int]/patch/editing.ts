@@ -1,4 +1,5 @@
 import type { FixtureControl } from '$lib/patch';
+import { parseAddressText } from '$lib/address-text';
 import type { RowView } from './rows';
 
 // What one inline edit sends: only the field that changed, plus the version
@@ -9,34 +10,40 @@ export interface Draft {
 	col: string;
 	label: string;
 	modeId: number;
-	universeId: number | null;
+	/** "2.101"; empty or "none" takes the fixture off DMX (manual) */
 	address: string;
 }
 
-export function draftFor(r: RowView, col: string): Draft {
+export function draftFor(r: RowView, col: string, universeNumber: (id: number) => number | undefined): Draft {
 	const c = r.f.control;
+	const u = c.kind === 'dmx' && c.universeId != null ? universeNumber(c.universeId) : undefined;
 	return {
 		rowId: r.id,
 		col,
 		label: r.f.label,
 		modeId: r.f.modeId,
-		universeId: c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null,
-		address: c.kind === 'dmx' ? String(c.address) : ''
+		address: c.kind === 'dmx' ? `${u ?? ''}${u ? '.' : ''}${c.address}` : ''
 	};
 }
 
 export type EditBody = { label: string } | { modeId: number } | { control: FixtureControl };
 
-/** The PATCH fields for a draft, or a message saying why it cannot be sent. */
-export function bodyFor(d: Draft, r: RowView): EditBody | string {
+/** The PATCH fields for a draft, or a sentence saying why it cannot be sent. */
+export function bodyFor(d: Draft, r: RowView, universeByNumber: (n: number) => number | undefined): EditBody | string {
 	if (d.col === 'label') {
 		const label = d.label.trim();
 		return label ? { label } : 'A label cannot be empty.';
 	}
 	if (d.col === 'typeMode') return { modeId: d.modeId };
-	if (d.universeId === null) return { control: { kind: 'manual' } };
-	const address = Number(d.address);
-	if (!Number.isInteger(address)) return 'The address must be a whole number from 1 to 512.';
-	if (r.f.control.kind === 'dmx-map') return 'This fixture is addressed per parameter: change it on its fixture page.';
-	return { control: { kind: 'dmx', universeId: d.universeId, address } };
+	const text = d.address.trim();
+	if (text === '' || text.toLowerCase() === 'none') return { control: { kind: 'manual' } };
+	const parsed = parseAddressText(text);
+	if (!parsed.ok) return parsed.message;
+	const c = r.f.control;
+	const current = c.kind === 'dmx' ? c.universeId : null;
+	const universeId = parsed.universe !== null ? universeByNumber(parsed.universe) : current;
+	if (parsed.universe !== null && universeId === undefined)
+		return `There is no universe ${parsed.universe} in this project; add it under Universes first.`;
+	if (universeId == null) return 'Write the universe too, e.g. 2.101.';
+	return { control: { kind: 'dmx', universeId, address: parsed.address } };
 }

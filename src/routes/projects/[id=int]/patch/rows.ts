@@ -5,7 +5,6 @@ import {
 	createFilteredRowModel,
 	createSortedRowModel,
 	globalFilteringFeature,
-	rowSelectionFeature,
 	rowSortingFeature,
 	sortFn_alphanumeric,
 	sortFn_basic,
@@ -48,9 +47,18 @@ export interface RowView {
 
 const SEVERITY_RANK: Record<string, number> = { error: 3, warning: 2, info: 1 };
 
-export function worstSeverity(list: Conflict[]): string | null {
-	let worst: string | null = null;
-	for (const c of list) if (!worst || SEVERITY_RANK[c.severity] > SEVERITY_RANK[worst]) worst = c.severity;
+/** Conflicts that need fixing: a link group (info) is an intended shared address, not a problem. */
+export function problemsOf(list: readonly Conflict[]): Conflict[] {
+	return list.filter((c) => c.severity !== 'info');
+}
+
+/** The worst problem on a row; info alone is no problem, so it answers null. */
+export function worstSeverity(list: readonly Conflict[]): 'error' | 'warning' | null {
+	let worst: 'error' | 'warning' | null = null;
+	for (const c of list) {
+		if (c.severity === 'info') continue;
+		if (!worst || SEVERITY_RANK[c.severity] > SEVERITY_RANK[worst]) worst = c.severity;
+	}
 	return worst;
 }
 
@@ -95,8 +103,7 @@ export const features = tableFeatures({
 	columnFilteringFeature,
 	globalFilteringFeature,
 	filteredRowModel: createFilteredRowModel(),
-	columnVisibilityFeature,
-	rowSelectionFeature
+	columnVisibilityFeature
 });
 
 type R = Row<typeof features, RowView>;
@@ -124,11 +131,11 @@ export const columns = helper.columns([
 		filterFn: (row: R, _id: string, value: string) => row.original.state === value
 	}),
 	helper.accessor((r) => r.swatch ?? '', { id: 'colour', header: 'Look', enableSorting: false }),
-	helper.accessor((r) => r.conflicts.length, {
+	helper.accessor((r) => problemsOf(r.conflicts).length, {
 		id: 'conflicts',
 		header: 'Conflicts',
 		sortFn: 'basic',
-		filterFn: (row: R, _id: string, value: boolean) => !value || row.original.conflicts.length > 0
+		filterFn: (row: R, _id: string, value: boolean) => !value || problemsOf(row.original.conflicts).length > 0
 	})
 ]);
 
@@ -136,14 +143,15 @@ export const columns = helper.columns([
 export const WIDTHS: Record<string, string> = {
 	select: '2.5rem',
 	number: '4rem',
-	label: 'minmax(8rem, 1.2fr)',
-	typeMode: 'minmax(10rem, 1.6fr)',
-	control: 'minmax(8rem, 1fr)',
+	label: 'minmax(7rem, 1fr)',
+	// wide enough for "maker model · mode 16-bit": the bit depth is what tells modes apart
+	typeMode: 'minmax(14rem, 2fr)',
+	control: 'minmax(7rem, 0.9fr)',
 	slots: '6.5rem',
-	position: 'minmax(6rem, 0.8fr)',
-	group: 'minmax(5rem, 0.6fr)',
+	position: 'minmax(5rem, 0.7fr)',
+	group: 'minmax(4rem, 0.5fr)',
 	state: '6.5rem',
-	colour: '3.5rem',
+	colour: '3rem',
 	conflicts: 'minmax(9rem, 1.2fr)'
 };
 

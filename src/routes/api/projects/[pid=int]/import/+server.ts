@@ -3,6 +3,7 @@ import { api } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
 import { importUpload, wantsApply } from '$lib/server/import/index';
 import { readUpload } from '$lib/server/import/multipart';
+import { publish } from '$lib/server/live';
 import type { RequestHandler } from './$types';
 
 /** Multipart field `file`: a .csv patch or a .gdtf fixture type. Previews unless apply=true (query or form field). */
@@ -10,5 +11,6 @@ export const POST: RequestHandler = api(async (event) => {
 	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
 	const upload = await readUpload(event);
 	const summary = await importUpload(projectId, user.id, upload, wantsApply(event.url, upload.fields));
+	if (summary.applied) publish(projectId, { by: user.id, refetch: true });
 	return json(summary, { status: summary.applied ? 201 : 200 });
 });

@@ -55,3 +55,21 @@ export function freeRuns(claims: SlotClaim[][]): { start: number; end: number }[
 export function fixtureHue(number: number): number {
 	return Math.round((number * 137.508) % 360);
 }
+
+export type SlotKind = 'free' | 'one' | 'linked' | 'overlap';
+
+/**
+ * What each slot is: a link group (fixtures sharing an address on purpose, reported by the engine
+ * as `linked`) is one intended block, not an overlap; anything else claimed twice is an overlap.
+ */
+export function slotKinds(claims: SlotClaim[][], linkedGroups: readonly (readonly number[])[]): SlotKind[] {
+	const groups = linkedGroups.map((g) => new Set(g));
+	return claims.map((list) => {
+		if (list.length === 0) return 'free';
+		if (list.length === 1) return 'one';
+		const ids = new Set(list.map((c) => c.fixtureId));
+		// one fixture claiming a slot twice is a self-overlap; a group must hold every claimant
+		if (ids.size === list.length && groups.some((g) => [...ids].every((id) => g.has(id)))) return 'linked';
+		return 'overlap';
+	});
+}
