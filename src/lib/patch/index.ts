@@ -11,3 +11,4 @@ export * from './refresh';
 export * from './colour';
 export * from './diff';
 export { sweep, type Claim, type SweepResult } from './sweep';
+export * from './describe';

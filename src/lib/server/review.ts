@@ -3,7 +3,7 @@ import type { Conflict } from '../patch/index';
 import { ApiError } from './api';
 import { publicBaseUrl } from './config';
 import { getProject } from './db/projects';
-import { lookupToken } from './db/review-links';
+import { latestLinkRecipients, lookupToken } from './db/review-links';
 import {
 	computeSnapshot,
 	diffSnapshots,
@@ -15,7 +15,7 @@ import {
 } from './db/revisions';
 import { createSignoff, signoffRecipients, type NewSignoff } from './db/signoffs';
 import { sendMail } from './mail/outbox';
-import { signoffMail } from './mail/templates';
+import { newRevisionMail, signoffMail } from './mail/templates';
 import { reviewLookupByIp } from './ratelimit';
 
 // What a review-link holder may see: one revision of one project, nothing else.
@@ -83,6 +83,7 @@ export function revisionsPageUrl(projectId: number): string {
 export async function signOff(revision: RevisionRow, input: NewSignoff) {
 	const row = createSignoff(revision, input);
 	const project = getProject(revision.projectId);
+	const changes = changesSinceApproval(revision);
 	const mails = signoffRecipients(revision.projectId).map((to) =>
 		sendMail(
 			signoffMail(to, {
@@ -92,7 +93,8 @@ export async function signOff(revision: RevisionRow, input: NewSignoff) {
 				decision: row.decision,
 				name: row.name,
 				comment: row.comment,
-				url: revisionsPageUrl(revision.projectId)
+				url: revisionsPageUrl(revision.projectId),
+				changes
 			})
 		).catch((err: unknown) => console.error('sign-off mail not queued', err))
 	);
@@ -106,4 +108,34 @@ export async function signOff(revision: RevisionRow, input: NewSignoff) {
 		stale: revision.number < (latestRevision(revision.projectId)?.number ?? revision.number),
 		revision: revision.number
 	};
+}
+
+/** The plan changes since the last approval before `revision`, as the review page words them. */
+export function changesSinceApproval(revision: RevisionRow): { since: number; lines: string[] } | null {
+	const approved = lastApproved(revision.projectId, revision.number);
+	if (!approved) return null;
+	const { changes } = diffSnapshots(snapshotOf(approved), snapshotOf(revision));
+	return { since: approved.number, lines: changes.plan.map((l) => l.text) };
+}
+
+/**
+ * Tells the holders of "always the latest" links that a new revision is behind their link. Mails go
+ * through the outbox (stored first, retried), so a slow or failed send never undoes the revision.
+ */
+export async function notifyLatestLinks(revision: RevisionRow): Promise<void> {
+	const to = latestLinkRecipients(revision.projectId);
+	if (to.length === 0) return;
+	const project = getProject(revision.projectId);
+	const changes = changesSinceApproval(revision);
+	const mails = to.map((address) =>
+		sendMail(
+			newRevisionMail(address, {
+				projectName: project?.name ?? '',
+				revision: revision.number,
+				note: revision.note,
+				changes
+			})
+		).catch((err: unknown) => console.error('new-revision mail not queued', err))
+	);
+	await Promise.race([Promise.allSettled(mails), new Promise((r) => setTimeout(r, 5000).unref())]);
 }

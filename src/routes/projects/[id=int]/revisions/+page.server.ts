@@ -1,11 +1,14 @@
 import { fail, redirect } from '@sveltejs/kit';
-import type { PatchDiff } from '$lib/patch';
+import type { DescribedChanges, PatchDiff } from '$lib/patch';
 import { requireRole, roleAtLeast } from '$lib/server/authz';
 import type { ReviewLinkShape } from '$lib/server/db/review-links';
 import type { RevisionShape } from '$lib/server/db/revisions';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
-type Diff = PatchDiff & { before: { revision: number }; after: { revision: number | 'live' } };
+type Diff = PatchDiff & { changes: DescribedChanges } & {
+	before: { revision: number };
+	after: { revision: number | 'live' };
+};
 
 export const load: PageServerLoad = async (event) => {
 	const { role } = requireRole(event, event.params.id, 'viewer');
