@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 
 // Fixture bodies for the JSON API and the forms; client-safe. Checks that need
 // the database (the universe is this project's, the mode is the type's, the

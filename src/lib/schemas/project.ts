@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 
 // Shared by the JSON API and the forms; client-safe (no server imports).
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 import { defaultChannelCount } from '../patch/index';
 
 // Receivers; client-safe. Channel pools per protocol follow the engine

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 
 // Fixture types with their modes inline; client-safe. The footprint rules
 // (DESIGN.md "Mode") are checked here so a form can show them before sending.

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '../messages';
 
 // Universe bodies for the JSON API and the forms; client-safe.
 
