@@ -216,6 +216,38 @@ describe('review links', () => {
 	});
 });
 
+describe('review links and new revisions', () => {
+	it('a new revision behind an "always the latest" link is mailed to the link’s holder, in the review page’s words', async () => {
+		const [, b] = twoDmxFixtures(server.db(), pid);
+		await makeLink(owner, { revision: 'latest', email: 'night-producer@example.test' });
+		// a link to one fixed revision does not follow new revisions, so its holder is not told
+		await makeLink(owner, { revision: 1, email: 'fixed-producer@example.test' });
+		server.db().update(fixtures).set({ address: 301 }).where(eq(fixtures.id, b.id)).run();
+		const made = await (await programmer.post(`/api/projects/${pid}/revisions`, { note: 'Night two' })).json();
+		const [mail] = await waitForMail(
+			server,
+			(m) => m.to === 'night-producer@example.test' && m.subject.includes(`revision ${made.number} is ready`)
+		);
+		expect(mail.text).toContain('Night two');
+		expect(mail.text).toMatch(new RegExp(`Fixture ${b.number} .*moved from \\d+\\.${b.address} to \\d+\\.301`));
+		expect(mail.text).not.toMatch(/control\.address|universeId|modeId/);
+		const fixed = await waitForMail(server, (m) => m.to === 'fixed-producer@example.test');
+		expect(fixed.every((m) => !m.subject.includes('is ready to review'))).toBe(true);
+	});
+
+	it('the review and the sign-off mail word the changes the same way', async () => {
+		const link = await makeLink(programmer, { revision: 'latest' });
+		const body = await (await server.anonymous().get(`/api/review/${tokenOf(link.url)}`)).json();
+		const lines: string[] = body.diff.changes.plan.map((l: { text: string }) => l.text);
+		expect(lines.length).toBeGreaterThan(0);
+		await server
+			.anonymous()
+			.post(`/api/review/${tokenOf(link.url)}/signoff`, { name: 'Wordy Producer', decision: 'approved', comment: '' });
+		const [mail] = await waitForMail(server, (m) => m.subject.includes('approved by Wordy Producer'), 2);
+		for (const line of lines) expect(mail.text).toContain(line);
+	});
+});
+
 describe('rate limits (PATCHWRIGHT_RATE_SCALE=1)', () => {
 	it('token lookups are limited per address, so tokens cannot be tried by the thousand', async () => {
 		const strict = await startServer({ env: { PATCHWRIGHT_RATE_SCALE: '1' } });

@@ -40,7 +40,8 @@ describe('revision, review link and sign-off in the browser', () => {
 		// no session on the phone
 		expect(await mobile.locator('a:has-text("Sign in")').count()).toBe(1);
 
-		// empty name: the form refuses and keeps the comment
+		// empty name: the form refuses and keeps the comment (no decision is preselected, so choose one)
+		await mobile.check('input[value="approved"]');
 		await mobile.fill('#comment', 'Looks right for night one');
 		await mobile.locator('#name').evaluate((el) => el.removeAttribute('required'));
 		await mobile.click('button:has-text("Send sign-off")');

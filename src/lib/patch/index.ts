@@ -12,3 +12,4 @@ export * from './colour';
 export * from './diff';
 export { sweep, type Claim, type SweepResult } from './sweep';
 export * from './power';
+export * from './describe';

@@ -3,7 +3,7 @@ import type { Conflict } from '../patch/index';
 import { GoneError, NotFoundError, RateLimitedError } from './errors';
 import { publicBaseUrl } from './config';
 import { getProject } from './db/projects';
-import { createReviewLink, lookupToken, revokeReviewLink } from './db/review-links';
+import { createReviewLink, latestLinkRecipients, lookupToken, revokeReviewLink } from './db/review-links';
 import {
 	computeSnapshot,
 	diffSnapshots,
@@ -15,7 +15,7 @@ import {
 } from './db/revisions';
 import { createSignoff, signoffRecipients, type NewSignoff } from './db/signoffs';
 import { queueMail } from './mail/outbox';
-import { signoffMail } from './mail/templates';
+import { newRevisionMail, signoffMail } from './mail/templates';
 import { memberMailByAddress, memberMailBySender, reviewLookupByIp, signoffByIp, throttle } from './ratelimit';
 import { revisionOr404 } from './revision-access';
 import type { z } from 'zod';
@@ -88,6 +88,7 @@ export function revisionsPageUrl(projectId: number): string {
 export async function signOff(revision: RevisionRow, input: NewSignoff) {
 	const row = createSignoff(revision, input);
 	const project = getProject(revision.projectId);
+	const changes = changesSinceApproval(revision);
 	for (const to of signoffRecipients(revision.projectId)) {
 		queueMail(
 			signoffMail(to, {
@@ -97,7 +98,8 @@ export async function signOff(revision: RevisionRow, input: NewSignoff) {
 				decision: row.decision,
 				name: row.name,
 				comment: row.comment,
-				url: revisionsPageUrl(revision.projectId)
+				url: revisionsPageUrl(revision.projectId),
+				changes
 			}),
 			{ projectId: revision.projectId, kind: 'sign-off' }
 		);
@@ -182,4 +184,34 @@ export function memberSignOff(
 	input: { decision: SignoffDecision; comment: string }
 ) {
 	return signOff(revision, { ...input, name: user.name || user.email, userId: user.id });
+}
+
+/** The plan changes since the last approval before `revision`, as the review page words them. */
+export function changesSinceApproval(revision: RevisionRow): { since: number; lines: string[] } | null {
+	const approved = lastApproved(revision.projectId, revision.number);
+	if (!approved) return null;
+	const { changes } = diffSnapshots(snapshotOf(approved), snapshotOf(revision));
+	return { since: approved.number, lines: changes.plan.map((l) => l.text) };
+}
+
+/**
+ * Tells the holders of "always the latest" links that a new revision is behind their link. Mails go
+ * through the outbox (stored first, retried), so a slow or failed send never undoes the revision.
+ */
+export async function notifyLatestLinks(revision: RevisionRow): Promise<void> {
+	const to = latestLinkRecipients(revision.projectId);
+	if (to.length === 0) return;
+	const project = getProject(revision.projectId);
+	const changes = changesSinceApproval(revision);
+	for (const address of to) {
+		queueMail(
+			newRevisionMail(address, {
+				projectName: project?.name ?? '',
+				revision: revision.number,
+				note: revision.note,
+				changes
+			}),
+			{ projectId: revision.projectId, kind: 'review-link' }
+		);
+	}
 }

@@ -1,4 +1,4 @@
-import type { PatchDiff } from '../patch/index';
+import type { DescribedChanges, PatchDiff } from '../patch/index';
 import { InvalidError, NotFoundError } from './errors';
 import { parseId } from './authz';
 import { diffSnapshots, getRevision, liveSnapshot, snapshotOf, type RevisionRow } from './db/revisions';
@@ -11,7 +11,10 @@ export function revisionOr404(projectId: number, n: string | undefined): Revisio
 	return row;
 }
 
-export type RevisionDiff = PatchDiff & { before: { revision: number }; after: { revision: number | 'live' } };
+export type RevisionDiff = PatchDiff & { changes: DescribedChanges } & {
+	before: { revision: number };
+	after: { revision: number | 'live' };
+};
 
 /**
  * What changed from revision `against` to revision `n`, or (`against` = 'live') in the draft since

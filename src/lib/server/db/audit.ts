@@ -1,5 +1,6 @@
+import { and, desc, eq, or, sql } from 'drizzle-orm';
 import { db } from './index';
-import { auditLog } from './schema';
+import { auditLog, users } from './schema';
 import { insertMany } from './bulk';
 
 export interface AuditEntry {
@@ -47,4 +48,53 @@ export function recordAuditMany(entries: AuditEntry[]): void {
 			at
 		}))
 	);
+}
+
+export interface AuditRecord {
+	id: number;
+	action: string;
+	by: string;
+	at: Date;
+	before: unknown;
+	after: unknown;
+}
+
+/** One fixture's entries, newest first: its own changes and the photos added to or removed from it. */
+export function fixtureAudit(projectId: number, fixtureId: number, limit = 30): AuditRecord[] {
+	const id = String(fixtureId);
+	return db()
+		.select({
+			id: auditLog.id,
+			action: auditLog.action,
+			name: users.name,
+			email: users.email,
+			at: auditLog.at,
+			before: auditLog.before,
+			after: auditLog.after
+		})
+		.from(auditLog)
+		.leftJoin(users, eq(users.id, auditLog.userId))
+		.where(
+			and(
+				eq(auditLog.projectId, projectId),
+				or(
+					and(eq(auditLog.entity, 'fixture'), eq(auditLog.entityId, id)),
+					and(
+						eq(auditLog.entity, 'upload'),
+						sql`coalesce(json_extract(${auditLog.after}, '$.fixtureId'), json_extract(${auditLog.before}, '$.fixtureId')) = ${fixtureId}`
+					)
+				)
+			)
+		)
+		.orderBy(desc(auditLog.at), desc(auditLog.id))
+		.limit(limit)
+		.all()
+		.map((r) => ({
+			id: r.id,
+			action: r.action,
+			by: r.name || r.email || 'a removed account',
+			at: r.at,
+			before: r.before,
+			after: r.after
+		}));
 }

@@ -114,3 +114,19 @@ export function lookupToken(token: string): TokenLookup {
 	if (!revision || revision.projectId !== link.projectId) return { status: 'no-revision', link };
 	return { status: 'active', link, revision };
 }
+
+const ADDRESS = /^[^\s@]+@[^\s@]+\.[^\s@]+$/;
+
+/**
+ * Addresses behind active "always the latest" links. A link's label is the address it was e-mailed to
+ * (review-links POST stores `email` there), so no other column is needed to reach its holder.
+ */
+export function latestLinkRecipients(projectId: number, now = Date.now()): string[] {
+	const rows = db()
+		.select()
+		.from(reviewLinks)
+		.where(and(eq(reviewLinks.projectId, projectId), isNull(reviewLinks.revisionId), isNull(reviewLinks.revokedAt)))
+		.all();
+	const to = rows.filter((r) => linkStatus(r, now) === 'active' && ADDRESS.test(r.label)).map((r) => r.label);
+	return [...new Set(to)];
+}

@@ -1,5 +1,11 @@
 import { and, asc, desc, eq, inArray, lt, sql } from 'drizzle-orm';
-import { diffPatches, type PatchDiff, type PatchSnapshot } from '../../patch/index';
+import {
+	describeChanges,
+	diffPatches,
+	type DescribedChanges,
+	type PatchDiff,
+	type PatchSnapshot
+} from '../../patch/index';
 import { recordAudit } from './audit';
 import { db } from './index';
 import {
@@ -49,10 +55,16 @@ export function computeSnapshot(s: RevisionSnapshot): PatchData {
 	return computeFor(s.project, s.types, s.universes, s.receivers, s.fixtures);
 }
 
-/** Field-level changes from `before` to `after`, by the engine's diff. */
-export function diffSnapshots(before: RevisionSnapshot, after: RevisionSnapshot): PatchDiff {
+/** Field-level changes from `before` to `after`, by the engine's diff, and the same changes in the crew's words. */
+export function diffSnapshots(
+	before: RevisionSnapshot,
+	after: RevisionSnapshot
+): PatchDiff & { changes: DescribedChanges } {
 	// The shapes are JSON all the way down; the engine's snapshot type just spells that out.
-	return diffPatches(before as unknown as PatchSnapshot, after as unknown as PatchSnapshot);
+	const b = before as unknown as PatchSnapshot;
+	const a = after as unknown as PatchSnapshot;
+	const diff = diffPatches(b, a);
+	return { ...diff, changes: describeChanges(diff, b, a) };
 }
 
 /** Snapshots the live patch as the next revision; number and snapshot are read inside one transaction. */

@@ -109,6 +109,20 @@ export function passwordMail(to: string, url: string, reason: 'signup' | 'reset'
 	});
 }
 
+const MAX_CHANGE_LINES = 30;
+
+function changeLines(changes: { since: number; lines: string[] } | null | undefined): string[] {
+	if (!changes) return [];
+	if (changes.lines.length === 0) return [`No change to the plan since revision ${changes.since}.`];
+	const shown = changes.lines.slice(0, MAX_CHANGE_LINES);
+	const more = changes.lines.length - shown.length;
+	return [
+		`Changes to the plan since revision ${changes.since}:`,
+		...shown.map((l) => `• ${l}`),
+		...(more > 0 ? [`…and ${more} more on the revisions page.`] : [])
+	];
+}
+
 export function signoffMail(
 	to: string,
 	input: {
@@ -119,6 +133,8 @@ export function signoffMail(
 		name: string;
 		comment: string;
 		url: string;
+		/** What changed since the last approval, in the words of the review page (describeChanges). */
+		changes?: { since: number; lines: string[] } | null;
 	}
 ): OutgoingMail {
 	const verdict = input.decision === 'approved' ? 'approved' : 'asked for changes to';
@@ -130,7 +146,8 @@ export function signoffMail(
 			sendersWords('Project name', input.projectName),
 			sendersWords('Reviewer’s name', input.name),
 			...(input.note ? [sendersWords('Revision note', input.note)] : []),
-			input.comment ? sendersWords('Comment', input.comment) : 'No comment was left.'
+			input.comment ? sendersWords('Comment', input.comment) : 'No comment was left.',
+			...changeLines(input.changes)
 		],
 		action: { label: 'Open the revisions', url: input.url }
 	});
@@ -154,5 +171,23 @@ export function reviewLinkMail(
 			'Anyone with the link can read this revision, so please do not forward it.'
 		],
 		action: { label: 'Review the patch', url: input.url }
+	});
+}
+
+/** To the holder of an "always the latest" link: the token is not stored, so the mail points at the link they have. */
+export function newRevisionMail(
+	to: string,
+	input: { projectName: string; revision: number; note: string; changes?: { since: number; lines: string[] } | null }
+): OutgoingMail {
+	return composeMail({
+		to,
+		subject: `Revision ${input.revision} is ready to review on Patchwright`,
+		lines: [
+			`Revision ${input.revision} of a lighting patch you review is ready.`,
+			sendersWords('Project name', input.projectName),
+			...(input.note ? [sendersWords('Revision note', input.note)] : []),
+			'Open the review link you were sent earlier: it always shows the latest revision, and you can approve it or ask for changes there.',
+			...changeLines(input.changes)
+		]
 	});
 }

@@ -1,5 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
-import type { PatchDiff } from '$lib/patch';
+import type { DescribedChanges, PatchDiff } from '$lib/patch';
 import type { PatchData } from '$lib/server/db/patch';
 import type { RevisionShape } from '$lib/server/db/revisions';
 import type { Actions, PageServerLoad } from './$types';
@@ -12,7 +12,7 @@ export interface ReviewData {
 	link: { revision: number | 'latest'; expiresAt: string | null };
 	revision: RevisionShape;
 	patch: Omit<PatchData, 'project'> & { summary: { errors: number; warnings: number; info: number } };
-	diff: (PatchDiff & { since: number }) | null;
+	diff: (PatchDiff & { since: number; changes: DescribedChanges }) | null;
 }
 
 export const load: PageServerLoad = async (event) => {

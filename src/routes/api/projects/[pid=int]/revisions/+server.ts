@@ -2,6 +2,7 @@ import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
 import { createRevision, listRevisions, revisionShape } from '$lib/server/db/revisions';
+import { notifyLatestLinks } from '$lib/server/review';
 import { revisionCreate } from '$lib/schemas/revision';
 import type { RequestHandler } from './$types';
 
@@ -15,5 +16,6 @@ export const POST: RequestHandler = api(async (event) => {
 	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
 	const { note } = await readJson(event, revisionCreate);
 	const row = createRevision(projectId, user, note);
+	await notifyLatestLinks(row);
 	return json(revisionShape(row), { status: 201 });
 });
