@@ -38,6 +38,39 @@ export default ts.config(
 		}
 	},
 	{
+		// one error model (DEVELOPERS.md "Errors"): below the routes, throw the domain errors of
+		// src/lib/server/errors.ts; only api() and action() know about HTTP
+		files: [
+			'src/lib/server/db/**/*.ts',
+			'src/lib/server/import/**/*.ts',
+			'src/lib/server/export/**/*.ts',
+			'src/lib/server/review.ts',
+			'src/lib/server/revision-access.ts',
+			'src/lib/patch/**/*.ts'
+		],
+		rules: {
+			'@typescript-eslint/no-restricted-imports': [
+				'error',
+				{
+					paths: [
+						{
+							name: '@sveltejs/kit',
+							allowTypeImports: true,
+							message: 'Throw a domain error from src/lib/server/errors.ts; api() and action() map it to HTTP.'
+						}
+					],
+					patterns: [
+						{
+							group: ['**/api', '$lib/server/api'],
+							importNames: ['ApiError', 'apiError', 'api'],
+							message: 'Throw a domain error from src/lib/server/errors.ts; api() maps it once.'
+						}
+					]
+				}
+			]
+		}
+	},
+	{
 		// these configs sit outside tsconfig's include; lint them without type information
 		files: ['eslint.config.js', 'svelte.config.js'],
 		...ts.configs.disableTypeChecked

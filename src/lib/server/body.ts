@@ -1,5 +1,5 @@
 import type { RequestEvent } from '@sveltejs/kit';
-import { ApiError } from './api';
+import { InvalidError, TooLargeError, UnsupportedTypeError, type Issue } from './errors';
 
 // Request bodies read with a running byte count: JSON, photos and imports all come through here.
 
@@ -17,7 +17,7 @@ const DRAIN_BYTES = 32 * 1024 * 1024;
  */
 export async function readCapped(request: Request, limit: number): Promise<Uint8Array> {
 	const declared = Number(request.headers.get('content-length') ?? 0);
-	const tooLarge = () => new ApiError(413, `The request body is over ${sizeText(limit)}.`, { code: 'too-large' });
+	const tooLarge = () => new TooLargeError(`The request body is over ${sizeText(limit)}.`);
 	if (declared > DRAIN_BYTES) throw tooLarge();
 	if (!request.body) return new Uint8Array(0);
 	const reader = request.body.getReader();
@@ -30,7 +30,7 @@ export async function readCapped(request: Request, limit: number): Promise<Uint8
 		} catch {
 			// the adapter's own BODY_SIZE_LIMIT or a dropped client ends the stream
 			if (size > limit) throw tooLarge();
-			throw new ApiError(400, 'The upload was cut off.');
+			throw new InvalidError('The upload was cut off.');
 		}
 		if (step.done) break;
 		size += step.value.byteLength;
@@ -61,14 +61,14 @@ export interface UploadLimits {
 	maxBodyBytes: number;
 	maxFileBytes: number;
 	/** how a missing file is reported in `issues` (imports name rows, the rest name paths) */
-	missingIssue: Record<string, unknown>;
+	missingIssue: Issue;
 }
 
 /** The multipart field `file` and the other text fields; the body is counted while read and refused (413) past the cap. */
 export async function readUpload(event: Pick<RequestEvent, 'request'>, limits: UploadLimits): Promise<Upload> {
 	const type = event.request.headers.get('content-type') ?? '';
 	if (!type.startsWith('multipart/form-data'))
-		throw new ApiError(415, 'Send the file as multipart/form-data with a field named file.');
+		throw new UnsupportedTypeError('Send the file as multipart/form-data with a field named file.');
 	const body = await readCapped(event.request, limits.maxBodyBytes);
 	let form: FormData;
 	try {
@@ -78,13 +78,11 @@ export async function readUpload(event: Pick<RequestEvent, 'request'>, limits: U
 			body: new Uint8Array(body)
 		}).formData();
 	} catch {
-		throw new ApiError(400, 'The multipart body could not be read.');
+		throw new InvalidError('The multipart body could not be read.');
 	}
 	const file = form.get('file');
-	if (!(file instanceof File))
-		throw new ApiError(400, 'Attach the file in a field named file.', { issues: [limits.missingIssue] });
-	if (file.size > limits.maxFileBytes)
-		throw new ApiError(413, `The file is over ${sizeText(limits.maxFileBytes)}.`, { code: 'too-large' });
+	if (!(file instanceof File)) throw new InvalidError('Attach the file in a field named file.', [limits.missingIssue]);
+	if (file.size > limits.maxFileBytes) throw new TooLargeError(`The file is over ${sizeText(limits.maxFileBytes)}.`);
 	const fields = new Map<string, string>();
 	for (const [k, v] of form) if (typeof v === 'string') fields.set(k, v);
 	return { name: file.name, bytes: new Uint8Array(await file.arrayBuffer()), fields };

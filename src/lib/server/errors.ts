@@ -12,132 +12,145 @@ export interface FieldIssue {
 	field?: string;
 }
 
+/** An uploaded file's problem where a path means nothing: the spreadsheet row (1-based, header = 1) and column. */
+export interface RowIssue {
+	row: number | null;
+	field: string;
+	message: string;
+}
+
+export type Issue = FieldIssue | RowIssue;
+
+/** What an error may carry besides its message; every kind accepts it as its last argument. */
+export interface ErrorDetail {
+	/** a finer code than the kind's own, for clients that branch on it (e.g. 'zip-path' for an invalid upload) */
+	code?: string;
+	/** problems a form can show beside its fields */
+	issues?: readonly Issue[];
+	/** extra top-level members of the JSON error answer (e.g. `stale: [ids]`) */
+	extra?: Record<string, unknown>;
+}
+
 export abstract class DomainError extends Error {
 	abstract readonly status: number;
-	abstract readonly code: string;
+	/** the kind's code; `detail.code` may refine it */
+	protected abstract readonly kind: string;
+	constructor(
+		message: string,
+		protected readonly detail: ErrorDetail = {}
+	) {
+		super(message);
+		this.name = new.target.name;
+	}
+	get code(): string {
+		return this.detail.code ?? this.kind;
+	}
 	/** extra top-level members of the JSON error answer (e.g. `current`, `usedBy`) */
 	extra(): Record<string, unknown> {
-		return {};
+		return this.detail.extra ?? {};
 	}
-	issues(): FieldIssue[] | undefined {
-		return undefined;
+	issues(): Issue[] | undefined {
+		return this.detail.issues ? [...this.detail.issues] : undefined;
 	}
 }
 
 /** No such row in this project (or not the caller's): 404, never revealing more. */
 export class NotFoundError extends DomainError {
 	readonly status = 404;
-	readonly code = 'not-found';
+	protected readonly kind = 'not-found';
 }
 
 /** Input that breaks a rule the schema cannot see (dates out of order, a footprint past 512 …). */
 export class InvalidError extends DomainError {
 	readonly status: number = 400;
-	readonly code: string = 'invalid';
-	constructor(
-		message: string,
-		private readonly fieldIssues: FieldIssue[] = []
-	) {
-		super(message);
-	}
-	override issues() {
-		return this.fieldIssues;
+	protected readonly kind: string = 'invalid';
+	constructor(message: string, issues?: ErrorDetail['issues'], detail: Omit<ErrorDetail, 'issues'> = {}) {
+		super(message, { ...detail, ...(issues ? { issues } : {}) });
 	}
 }
 
 /** A file that was read but cannot be used (an import's rows): 422 with every problem named. */
 export class UnprocessableError extends InvalidError {
 	override readonly status = 422;
-	override readonly code = 'unprocessable';
+	protected override readonly kind = 'unprocessable';
 }
 
 /** A unique thing already exists (fixture number, universe number, maker + model). */
 export class DuplicateError extends DomainError {
 	readonly status = 409;
-	readonly code = 'duplicate';
-	constructor(
-		message: string,
-		private readonly fieldIssues: FieldIssue[] = []
-	) {
-		super(message);
-	}
-	override issues() {
-		return this.fieldIssues.length ? this.fieldIssues : undefined;
+	protected readonly kind = 'duplicate';
+	constructor(message: string, issues?: ErrorDetail['issues'], detail: Omit<ErrorDetail, 'issues'> = {}) {
+		super(message, { ...detail, ...(issues ? { issues } : {}) });
 	}
 }
 
 /** A write carried a `version` older than the row's: the caller must re-read. */
 export class StaleVersionError extends DomainError {
 	readonly status = 409;
-	readonly code = 'stale';
-	constructor(public current: unknown) {
-		super('Someone else changed this since you read it.');
-	}
-	override extra() {
-		return { current: this.current };
+	protected readonly kind = 'stale';
+	constructor(
+		public current: unknown,
+		message = 'Someone else changed this since you read it.',
+		extra: Record<string, unknown> = {}
+	) {
+		super(message, { extra: { ...extra, current } });
 	}
 }
 
 /** A delete or change refused because other rows depend on the target. */
 export class InUseError extends DomainError {
 	readonly status = 409;
-	readonly code = 'in-use';
+	protected readonly kind = 'in-use';
 	constructor(
 		message: string,
 		public usedBy: unknown[]
 	) {
-		super(message);
-	}
-	override extra() {
-		return { usedBy: this.usedBy };
+		super(message, { extra: { usedBy } });
 	}
 }
 
 /** A rule of the domain refuses the change (the last owner leaving, a follow cycle …). */
 export class RefusedError extends DomainError {
 	readonly status = 409;
-	readonly code = 'refused';
+	protected readonly kind = 'refused';
 }
 
 /** The caller's role or relation does not allow this (beyond requireRole's own 403). */
 export class ForbiddenError extends DomainError {
 	readonly status = 403;
-	readonly code = 'forbidden';
+	protected readonly kind = 'forbidden';
 }
 
 /** Expired or revoked (review links, invitations). */
 export class GoneError extends DomainError {
 	readonly status = 410;
-	readonly code = 'gone';
+	protected readonly kind = 'gone';
 }
 
 export class TooLargeError extends DomainError {
 	readonly status = 413;
-	readonly code = 'too-large';
+	protected readonly kind = 'too-large';
 }
 
 export class UnsupportedTypeError extends DomainError {
 	readonly status = 415;
-	readonly code = 'unsupported-type';
+	protected readonly kind = 'unsupported-type';
 }
 
-/** A throttle: say when to come back instead of pretending the input is wrong. */
+/** A throttle: say when to come back (when known) instead of pretending the input is wrong. */
 export class RateLimitedError extends DomainError {
 	readonly status = 429;
-	readonly code = 'rate-limited';
+	protected readonly kind = 'rate-limited';
 	constructor(
 		message: string,
-		public retryAfterSeconds: number
+		public retryAfterSeconds?: number
 	) {
-		super(message);
-	}
-	override extra() {
-		return { retryAfter: this.retryAfterSeconds };
+		super(message, retryAfterSeconds === undefined ? {} : { extra: { retryAfter: retryAfterSeconds } });
 	}
 }
 
 /** The disk is full: nothing was kept. */
 export class InsufficientStorageError extends DomainError {
 	readonly status = 507;
-	readonly code = 'insufficient-storage';
+	protected readonly kind = 'insufficient-storage';
 }

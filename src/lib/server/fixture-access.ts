@@ -1,5 +1,5 @@
 import type { Role } from './db/schema';
-import { ApiError } from './api';
+import { ForbiddenError } from './errors';
 import { ELECTRICIAN_FIELDS } from '../schemas/fixture';
 
 /**
@@ -14,8 +14,6 @@ export function checkFixtureFields(role: Role, bodies: unknown[]): void {
 		for (const k of typeof b === 'object' && b !== null ? Object.keys(b) : [])
 			if (k !== 'id' && !ELECTRICIAN_FIELDS.includes(k)) extra.add(k);
 	if (extra.size > 0) {
-		throw new ApiError(403, `Electricians may change state and notes only, not ${[...extra].join(', ')}.`, {
-			code: 'forbidden'
-		});
+		throw new ForbiddenError(`Electricians may change state and notes only, not ${[...extra].join(', ')}.`);
 	}
 }

@@ -2,7 +2,7 @@ import { fail, isHttpError, isRedirect, type ActionFailure, type RequestEvent } 
 import { z, ZodError } from 'zod';
 import type { FormFailure } from '../forms';
 import { zodIssues } from './api';
-import { DomainError, InvalidError } from './errors';
+import { DomainError, InvalidError, type Issue } from './errors';
 
 // The one form pattern (DEVELOPERS.md "Forms"): a named action wrapped in `action()` reads the form
 // once, validates it with the zod schema the API uses, calls the same db function the API handler
@@ -15,6 +15,13 @@ export function formValues(form: FormData): Record<string, string> {
 	const values: Record<string, string> = {};
 	for (const [key, value] of form) if (typeof value === 'string') values[key] = value;
 	return values;
+}
+
+/** Row issues of uploads become field issues keyed by their column, with the row in the message. */
+function formIssues(issues: Issue[]): FormFailure['issues'] {
+	return issues.map((i) =>
+		'path' in i ? i : { path: [i.field], message: i.row === null ? i.message : `Row ${i.row}: ${i.message}` }
+	);
 }
 
 /** Validates input with a shared schema; failures throw InvalidError with the field issues. */
@@ -39,7 +46,7 @@ export function action<E extends RequestEvent, R>(
 			if (isRedirect(err) || isHttpError(err)) throw err;
 			const values = Object.fromEntries(Object.entries(formValues(form)).filter(([k]) => !SECRET.test(k)));
 			if (err instanceof DomainError) {
-				return fail(err.status, { message: err.message, issues: err.issues() ?? [], values, action: name });
+				return fail(err.status, { message: err.message, issues: formIssues(err.issues() ?? []), values, action: name });
 			}
 			if (err instanceof ZodError) {
 				return fail(400, { message: 'Some fields need fixing.', issues: zodIssues(err), values, action: name });

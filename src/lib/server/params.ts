@@ -1,11 +1,11 @@
 import type { RequestEvent } from '@sveltejs/kit';
-import { ApiError } from './api';
+import { NotFoundError } from './errors';
 import { parseId } from './authz';
 
 /** A route's numeric id; anything else is simply not found. */
 export function idParam(value: string | undefined, what: string): number {
 	const id = parseId(value);
-	if (id === null) throw new ApiError(404, `No such ${what} in this project.`);
+	if (id === null) throw new NotFoundError(`No such ${what} in this project.`);
 	return id;
 }
 

@@ -1,6 +1,6 @@
 import type { RequestEvent } from '@sveltejs/kit';
 import type { Conflict } from '../patch/index';
-import { ApiError } from './api';
+import { GoneError, NotFoundError, RateLimitedError } from './errors';
 import { publicBaseUrl } from './config';
 import { getProject } from './db/projects';
 import { lookupToken } from './db/review-links';
@@ -31,18 +31,18 @@ export function conflictSummary(conflicts: Conflict[]) {
 /** Counts the lookup against the caller's address first, so forged tokens cost a try too. */
 export function resolveToken(event: Pick<RequestEvent, 'params' | 'getClientAddress'>) {
 	if (!reviewLookupByIp.hit(event.getClientAddress())) {
-		throw new ApiError(429, 'Too many review-link requests from your address; wait a minute and try again.');
+		throw new RateLimitedError('Too many review-link requests from your address; wait a minute and try again.');
 	}
 	const found = lookupToken(event.params.token ?? '');
 	switch (found.status) {
 		case 'not-found':
-			throw new ApiError(404, 'This review link does not exist. Check that the whole link was copied.');
+			throw new NotFoundError('This review link does not exist. Check that the whole link was copied.');
 		case 'revoked':
-			throw new ApiError(410, 'This review link was withdrawn. Ask the programmer for a new one.');
+			throw new GoneError('This review link was withdrawn. Ask the programmer for a new one.');
 		case 'expired':
-			throw new ApiError(410, 'This review link has expired. Ask the programmer for a new one.');
+			throw new GoneError('This review link has expired. Ask the programmer for a new one.');
 		case 'no-revision':
-			throw new ApiError(404, 'Nothing to review yet: the project has no revision.');
+			throw new NotFoundError('Nothing to review yet: the project has no revision.');
 		default:
 			return found;
 	}

@@ -1,4 +1,4 @@
-import { ApiError } from './api';
+import { NotFoundError } from './errors';
 import { parseId } from './authz';
 import { getRevision, type RevisionRow } from './db/revisions';
 
@@ -6,6 +6,6 @@ import { getRevision, type RevisionRow } from './db/revisions';
 export function revisionOr404(projectId: number, n: string | undefined): RevisionRow {
 	const number = parseId(n);
 	const row = number === null ? undefined : getRevision(projectId, number);
-	if (!row) throw new ApiError(404, `No revision ${n} in this project.`);
+	if (!row) throw new NotFoundError(`No revision ${n} in this project.`);
 	return row;
 }

@@ -1,6 +1,6 @@
 import { strToU8, zipSync } from 'fflate';
 import { describe, expect, it } from 'vitest';
-import { ApiError } from '../../../src/lib/server/api';
+import { DomainError } from '../../../src/lib/server/errors';
 import { refusal } from '../../helpers/refusal';
 import { readGdtfArchive } from '../../../src/lib/server/import/gdtf';
 import { guardXml, safeUnzip, sniff, unsafeEntryName } from '../../../src/lib/server/import/limits';
@@ -57,7 +57,7 @@ describe('upload limits', () => {
 	});
 
 	it('refuses DTDs however they are cased', () => {
-		expect(() => guardXml('<?xml version="1.0"?><!doctype x><x/>')).toThrow(ApiError);
+		expect(() => guardXml('<?xml version="1.0"?><!doctype x><x/>')).toThrow(DomainError);
 		expect(() => guardXml('<GDTF DataVersion="1.1"/>')).not.toThrow();
 	});
 });

@@ -8,9 +8,9 @@ import {
 	type AutoAddressResult,
 	type FootprintProblem
 } from '../../patch/index';
-import { ApiError, type ApiIssue } from '../api';
+import type { FieldIssue } from '../errors';
 import { recordAudit } from './audit';
-import { InUseError, StaleVersionError } from './errors';
+import { DuplicateError, InUseError, InvalidError, NotFoundError, StaleVersionError } from '../errors';
 import { db } from './index';
 import {
 	controlColumns,
@@ -78,8 +78,8 @@ function problemMessage(p: FootprintProblem, slots: number): string {
 }
 
 /** Every check that needs the database; answers issues rather than throwing so a batch reports all at once. */
-function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): ApiIssue[] {
-	const issues: ApiIssue[] = [];
+function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): FieldIssue[] {
+	const issues: FieldIssue[] = [];
 	const at = (p: Path, message: string) => issues.push({ path: [...path, ...p], message });
 	if (!ctx.typeIds.has(f.typeId)) at(['typeId'], 'No such fixture type in this project.');
 	const mode = ctx.modes.get(f.modeId);
@@ -182,10 +182,11 @@ function asInput(s: FixtureShape): FixtureCreate {
 	};
 }
 
-function refuse(issues: ApiIssue[]): never {
-	throw new ApiError(400, issues.length === 1 ? issues[0].message : `${issues.length} problems; nothing was written.`, {
+function refuse(issues: FieldIssue[]): never {
+	throw new InvalidError(
+		issues.length === 1 ? issues[0].message : `${issues.length} problems; nothing was written.`,
 		issues
-	});
+	);
 }
 
 function numbersClash(ctx: Context, wanted: { number: number; id?: number; path: Path }[]): void {
@@ -193,7 +194,7 @@ function numbersClash(ctx: Context, wanted: { number: number; id?: number; path:
 	for (const [id, f] of ctx.fixtures) owner.set(f.number, id);
 	// fixtures in this write release their old numbers
 	for (const w of wanted) if (w.id !== undefined) owner.delete(ctx.fixtures.get(w.id)!.number);
-	const issues: ApiIssue[] = [];
+	const issues: FieldIssue[] = [];
 	for (const w of wanted) {
 		if (owner.has(w.number) && owner.get(w.number) !== w.id) {
 			issues.push({
@@ -204,10 +205,7 @@ function numbersClash(ctx: Context, wanted: { number: number; id?: number; path:
 		owner.set(w.number, w.id);
 	}
 	if (issues.length > 0)
-		throw new ApiError(409, issues[0].message + (issues.length > 1 ? ` (and ${issues.length - 1} more)` : ''), {
-			code: 'duplicate',
-			issues
-		});
+		throw new DuplicateError(issues[0].message + (issues.length > 1 ? ` (and ${issues.length - 1} more)` : ''), issues);
 }
 
 export function getFixture(projectId: number, id: number): FixtureShape | undefined {
@@ -221,7 +219,7 @@ export function getFixture(projectId: number, id: number): FixtureShape | undefi
 
 export function requireFixture(projectId: number, id: number): FixtureShape {
 	const f = getFixture(projectId, id);
-	if (!f) throw new ApiError(404, 'No such fixture in this project.');
+	if (!f) throw new NotFoundError('No such fixture in this project.');
 	return f;
 }
 
@@ -232,9 +230,7 @@ function uniqueAsConflict<T>(write: () => T): T {
 		return write();
 	} catch (err) {
 		if ((err as { code?: string }).code === 'SQLITE_CONSTRAINT_UNIQUE') {
-			throw new ApiError(409, 'A fixture number in this write is already taken; nothing was written.', {
-				code: 'duplicate'
-			});
+			throw new DuplicateError('A fixture number in this write is already taken; nothing was written.');
 		}
 		throw err;
 	}
@@ -287,18 +283,14 @@ function applyChanges(projectId: number, userId: string, changes: FixtureChange[
 	const byId = new Map(rows.map((r) => [r.id, fixtureShape(r)]));
 	const missing = changes.filter((c) => !byId.has(c.id));
 	if (missing.length > 0)
-		throw new ApiError(404, `No such fixture in this project: id ${missing.map((m) => m.id).join(', ')}.`);
+		throw new NotFoundError(`No such fixture in this project: id ${missing.map((m) => m.id).join(', ')}.`);
 	const stale = changes.filter((c) => byId.get(c.id)!.version !== c.version);
 	if (stale.length > 0) {
 		if (!many) throw new StaleVersionError(byId.get(stale[0].id));
-		throw new ApiError(
-			409,
+		throw new StaleVersionError(
+			changes.map((c) => byId.get(c.id)),
 			`${stale.length === 1 ? 'A fixture' : `${stale.length} fixtures`} changed since you read them (ids ${stale.map((s) => s.id).join(', ')}); nothing was written.`,
-			{
-				code: 'stale',
-				stale: stale.map((s) => s.id),
-				current: changes.map((c) => byId.get(c.id))
-			}
+			{ stale: stale.map((s) => s.id) }
 		);
 	}
 	const merged = changes.map((c) => {
@@ -399,17 +391,17 @@ export function autopatch(
 		const patch = loadPatchCached(projectId);
 		const universe = patch.universes.find((u) => u.id === input.universeId);
 		if (!universe)
-			throw new ApiError(400, 'No such universe in this project.', {
-				issues: [{ path: ['universeId'], message: 'No such universe in this project.' }]
-			});
+			throw new InvalidError('No such universe in this project.', [
+				{ path: ['universeId'], message: 'No such universe in this project.' }
+			]);
 		const moving = new Set(input.fixtureIds);
 		const chosen = patch.fixtures.filter((f) => moving.has(f.id));
 		if (chosen.length !== moving.size) {
 			const known = new Set(chosen.map((f) => f.id));
 			const stray = input.fixtureIds.filter((f) => !known.has(f));
-			throw new ApiError(400, `No such fixtures in this project: ${stray.join(', ')}.`, {
-				issues: [{ path: ['fixtureIds'], message: `Unknown ids ${stray.join(', ')}.` }]
-			});
+			throw new InvalidError(`No such fixtures in this project: ${stray.join(', ')}.`, [
+				{ path: ['fixtureIds'], message: `Unknown ids ${stray.join(', ')}.` }
+			]);
 		}
 		const slotsOf = new Map<number, number>();
 		for (const t of patch.types) for (const m of t.modes) slotsOf.set(m.id, m.slots);

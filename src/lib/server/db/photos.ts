@@ -2,7 +2,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { and, asc, eq } from 'drizzle-orm';
-import { ApiError } from '../api';
+import { NotFoundError, TooLargeError, UnsupportedTypeError } from '../errors';
 import { uploadsDir } from '../config';
 import { recordAudit } from './audit';
 import { db } from './index';
@@ -52,7 +52,7 @@ function photoRow(projectId: number, fixtureId: number, id: number): UploadRow {
 		.from(uploads)
 		.where(and(eq(uploads.id, id), eq(uploads.projectId, projectId), eq(uploads.fixtureId, fixtureId)))
 		.get();
-	if (!row) throw new ApiError(404, 'No such photo.');
+	if (!row) throw new NotFoundError('No such photo.');
 	return row;
 }
 
@@ -64,9 +64,9 @@ export function addPhoto(
 	bytes: Uint8Array,
 	originalName: string
 ): PhotoShape {
-	if (bytes.byteLength > MAX_PHOTO_BYTES) throw new ApiError(413, 'Photos are limited to 10 MB.');
+	if (bytes.byteLength > MAX_PHOTO_BYTES) throw new TooLargeError('Photos are limited to 10 MB.');
 	const kind = sniffImage(bytes);
-	if (!kind) throw new ApiError(415, 'Send a JPEG, PNG or WebP image.');
+	if (!kind) throw new UnsupportedTypeError('Send a JPEG, PNG or WebP image.');
 	const dir = uploadsDir();
 	mkdirSync(dir, { recursive: true });
 	const storedName = `${randomBytes(16).toString('hex')}.${kind.ext}`;

@@ -1,8 +1,7 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
 import { assignRc, defaultChannelCount, type AssignRcResult } from '../../patch/index';
-import { ApiError } from '../api';
 import { recordAudit } from './audit';
-import { InUseError, StaleVersionError } from './errors';
+import { InUseError, InvalidError, NotFoundError, StaleVersionError } from '../errors';
 import { db } from './index';
 import { listReceivers, listTypes, receiverShape, type ReceiverShape } from './patch';
 import { fixtures, receiverLabels, receivers } from './schema';
@@ -19,7 +18,7 @@ function requireRow(projectId: number, id: number) {
 		.from(receivers)
 		.where(and(eq(receivers.id, id), eq(receivers.projectId, projectId)))
 		.get();
-	if (!row) throw new ApiError(404, 'No such receiver in this project.');
+	if (!row) throw new NotFoundError('No such receiver in this project.');
 	return row;
 }
 
@@ -33,12 +32,9 @@ function labelsBeyond(protocol: ReceiverShape['protocol'], labels: Record<string
 	const count = defaultChannelCount(protocol);
 	const beyond = Object.keys(labels).filter((k) => Number(k) > count);
 	if (beyond.length > 0) {
-		throw new ApiError(
-			400,
+		throw new InvalidError(
 			`A ${protocol} receiver has channels 1–${count}; labels for ${beyond.join(', ')} do not fit.`,
-			{
-				issues: beyond.map((k) => ({ path: ['labels', k], message: `${protocol} has channels 1–${count}.` }))
-			}
+			beyond.map((k) => ({ path: ['labels', k], message: `${protocol} has channels 1–${count}.` }))
 		);
 	}
 }
@@ -130,11 +126,9 @@ export function assignReceiver(
 		const known = new Set(rows.map((f) => f.id));
 		const stray = [...chosen].filter((f) => !known.has(f));
 		if (stray.length > 0) {
-			throw new ApiError(400, `Fixture ids ${stray.join(', ')} are not on RC through this receiver.`, {
-				issues: [
-					{ path: ['fixtureIds'], message: `Not RC fixtures of receiver "${receiver.name}": ${stray.join(', ')}.` }
-				]
-			});
+			throw new InvalidError(`Fixture ids ${stray.join(', ')} are not on RC through this receiver.`, [
+				{ path: ['fixtureIds'], message: `Not RC fixtures of receiver "${receiver.name}": ${stray.join(', ')}.` }
+			]);
 		}
 		const modeParams = new Map<number, string[]>();
 		for (const t of listTypes(projectId))

@@ -1,7 +1,6 @@
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
-import { ApiError } from '../api';
 import { recordAudit } from './audit';
-import { InUseError, StaleVersionError } from './errors';
+import { InUseError, InvalidError, NotFoundError, StaleVersionError } from '../errors';
 import { db } from './index';
 import { listTypes, type TypeShape } from './patch';
 import { fixtureTypes, fixtures, modeChannels, modes } from './schema';
@@ -17,7 +16,7 @@ function requireRow(projectId: number, id: number) {
 		.from(fixtureTypes)
 		.where(and(eq(fixtureTypes.id, id), eq(fixtureTypes.projectId, projectId)))
 		.get();
-	if (!row) throw new ApiError(404, 'No such fixture type in this project.');
+	if (!row) throw new NotFoundError('No such fixture type in this project.');
 	return row;
 }
 
@@ -60,9 +59,9 @@ function fixturesUsing(column: typeof fixtures.typeId | typeof fixtures.modeId, 
 export function createType(projectId: number, userId: string, input: TypeCreate): TypeShape {
 	return db().transaction(() => {
 		if (input.modes.some((m) => m.id !== undefined)) {
-			throw new ApiError(400, 'A new type has no mode ids yet; leave id out.', {
-				issues: [{ path: ['modes'], message: 'Leave mode ids out on create.' }]
-			});
+			throw new InvalidError('A new type has no mode ids yet; leave id out.', [
+				{ path: ['modes'], message: 'Leave mode ids out on create.' }
+			]);
 		}
 		const row = db()
 			.insert(fixtureTypes)
@@ -98,12 +97,10 @@ export function updateType(projectId: number, userId: string, id: number, patch:
 			const existing = new Set(before.modes.map((m) => m.id));
 			const foreign = modeList.filter((m) => m.id !== undefined && !existing.has(m.id));
 			if (foreign.length > 0) {
-				throw new ApiError(400, `Mode ids ${foreign.map((m) => m.id).join(', ')} are not modes of this type.`, {
-					issues: foreign.map((m) => ({
-						path: ['modes', modeList.indexOf(m), 'id'],
-						message: 'Not a mode of this type.'
-					}))
-				});
+				throw new InvalidError(
+					`Mode ids ${foreign.map((m) => m.id).join(', ')} are not modes of this type.`,
+					foreign.map((m) => ({ path: ['modes', modeList.indexOf(m), 'id'], message: 'Not a mode of this type.' }))
+				);
 			}
 			const kept = new Set(modeList.map((m) => m.id).filter((m): m is number => m !== undefined));
 			const dropped = before.modes.filter((m) => !kept.has(m.id));

@@ -1,7 +1,6 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
-import { ApiError } from '../api';
 import { recordAudit } from './audit';
-import { InUseError, StaleVersionError } from './errors';
+import { DuplicateError, InUseError, NotFoundError, StaleVersionError } from '../errors';
 import { db } from './index';
 import { controlColumns, loadPatchCached, universeShape, type PatchData } from './patch';
 import { fixtures, universes } from './schema';
@@ -28,7 +27,7 @@ export function universeRow(projectId: number, id: number) {
 
 function requireUniverse(projectId: number, id: number) {
 	const row = universeRow(projectId, id);
-	if (!row) throw new ApiError(404, 'No such universe in this project.');
+	if (!row) throw new NotFoundError('No such universe in this project.');
 	return row;
 }
 
@@ -41,11 +40,10 @@ function numberTaken(projectId: number, number: number, exceptId?: number): bool
 	return row !== undefined && row.id !== exceptId;
 }
 
-function duplicate(number: number): ApiError {
-	return new ApiError(409, `Universe ${number} already exists in this project.`, {
-		code: 'duplicate',
-		issues: [{ path: ['number'], message: `Universe ${number} already exists.` }]
-	});
+function duplicate(number: number): DuplicateError {
+	return new DuplicateError(`Universe ${number} already exists in this project.`, [
+		{ path: ['number'], message: `Universe ${number} already exists.` }
+	]);
 }
 
 export function createUniverse(projectId: number, userId: string, input: UniverseCreate): UniverseWithNumbers {

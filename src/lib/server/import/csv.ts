@@ -1,5 +1,5 @@
 import Papa from 'papaparse';
-import { ApiError, type ApiIssue } from '../api';
+import { DomainError, UnprocessableError } from '../errors';
 import { createFixtures, updateFixtures, type FixtureChange } from '../db/fixtures';
 import { db } from '../db/index';
 import { listFixtures, listTypes, listUniverses, loadPatch } from '../db/patch';
@@ -109,18 +109,18 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	const records = parsed.data;
 	const issues: ImportIssue[] = [];
 	if (records.length === 0 || records[0].every((c) => c.trim() === '')) {
-		throw new ApiError(422, 'The CSV has no header row.', {
-			code: 'invalid-file',
-			issues: [{ row: 1, field: 'header', message: 'Empty.' }]
+		throw new UnprocessableError('The CSV has no header row.', [{ row: 1, field: 'header', message: 'Empty.' }], {
+			code: 'invalid-file'
 		});
 	}
 	const filled =
 		records.length - 1 > MAX_CSV_ROWS ? records.slice(1).filter((r) => r.some((c) => c.trim() !== '')).length : 0;
 	if (filled > MAX_CSV_ROWS) {
-		throw new ApiError(422, `The CSV has ${filled} rows; import at most ${MAX_CSV_ROWS} at a time.`, {
-			code: 'invalid-file',
-			issues: [{ row: MAX_CSV_ROWS + 2, field: 'row', message: 'Too many rows.' }]
-		});
+		throw new UnprocessableError(
+			`The CSV has ${filled} rows; import at most ${MAX_CSV_ROWS} at a time.`,
+			[{ row: MAX_CSV_ROWS + 2, field: 'row', message: 'Too many rows.' }],
+			{ code: 'invalid-file' }
+		);
 	}
 	const { columns, ignored } = matchHeaders(records[0]);
 	const missing: string[] = [];
@@ -128,18 +128,15 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	if (columns.universe === undefined && columns.address === undefined && columns.patch === undefined)
 		missing.push('universe and address');
 	if (missing.length) {
-		throw new ApiError(
-			422,
+		throw new UnprocessableError(
 			`The CSV has no ${missing.join(' or ')} column (found: ${
 				records[0]
 					.map((h) => h.trim())
 					.filter(Boolean)
 					.join(', ') || 'nothing'
 			}).`,
-			{
-				code: 'invalid-file',
-				issues: missing.map((m) => ({ row: 1, field: m, message: 'Column not found.' }))
-			}
+			missing.map((m) => ({ row: 1, field: m, message: 'Column not found.' })),
+			{ code: 'invalid-file' }
 		);
 	}
 	const rows: CsvRow[] = [];
@@ -226,10 +223,11 @@ class Rollback extends Error {
 }
 
 function issuesOf(err: unknown, rowAt: (i: number) => number): ImportIssue[] {
-	if (!(err instanceof ApiError)) throw err;
-	const list = (err.extra.issues as ApiIssue[] | undefined) ?? [];
+	if (!(err instanceof DomainError)) throw err;
+	const list = err.issues() ?? [];
 	if (list.length === 0) return [{ row: null, field: 'row', message: err.message }];
 	return list.map((i) => {
+		if (!('path' in i)) return i;
 		const idx = i.path.find((p): p is number => typeof p === 'number') ?? 0;
 		return { row: rowAt(idx), field: fieldOf(i.path), message: i.message };
 	});
@@ -243,10 +241,13 @@ function patchText(u: number | undefined, a: number | undefined): string {
 export function importCsv(projectId: number, userId: string, text: string, apply: boolean): CsvSummary {
 	const { rows, issues, ignored } = parseCsvPatch(text);
 	if (rows.length === 0 && issues.length === 0)
-		throw new ApiError(422, 'The CSV has a header but no fixture rows.', {
-			code: 'invalid-file',
-			issues: [{ row: 2, field: 'row', message: 'No rows.' }]
-		});
+		throw new UnprocessableError(
+			'The CSV has a header but no fixture rows.',
+			[{ row: 2, field: 'row', message: 'No rows.' }],
+			{
+				code: 'invalid-file'
+			}
+		);
 	try {
 		return db().transaction(() => {
 			const types = listTypes(projectId);
@@ -405,10 +406,10 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 			if (issues.length > 0) {
 				issues.sort((a, b) => (a.row ?? 0) - (b.row ?? 0));
 				const rowsBad = new Set(issues.map((i) => i.row)).size;
-				throw new ApiError(
-					422,
+				throw new UnprocessableError(
 					`${rowsBad === 1 ? `Row ${issues[0].row} has a problem` : `${rowsBad} rows have problems`}; nothing was written.`,
-					{ code: 'invalid-rows', issues }
+					issues,
+					{ code: 'invalid-rows' }
 				);
 			}
 			summary.conflicts = loadPatch(projectId).conflicts.map((c) => ({

@@ -1,5 +1,5 @@
 import { XMLParser } from 'fast-xml-parser';
-import { ApiError } from '../api';
+import { UnprocessableError } from '../errors';
 import { typeCreate, type ChannelInput, type ModeInput, type TypeCreate } from '../../schemas/type';
 import { guardXml, safeUnzip } from './limits';
 
@@ -87,9 +87,8 @@ function attr(n: Node | undefined, key: string): string | undefined {
 }
 
 function refuse(message: string, issues: ImportIssue[] = []): never {
-	throw new ApiError(422, message, {
-		code: 'invalid-file',
-		issues: issues.length ? issues : [{ row: null, field: 'file', message }]
+	throw new UnprocessableError(message, issues.length ? issues : [{ row: null, field: 'file', message }], {
+		code: 'invalid-file'
 	});
 }
 

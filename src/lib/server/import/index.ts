@@ -1,4 +1,4 @@
-import { ApiError } from '../api';
+import { DuplicateError, UnsupportedTypeError } from '../errors';
 import { createType } from '../db/types';
 import { listTypes, type TypeShape } from '../db/patch';
 import { importCsv, type CsvSummary } from './csv';
@@ -41,24 +41,24 @@ export function importUpload(
 	const name = upload.name.toLowerCase();
 	if (kind === 'zip') {
 		if (name && !name.endsWith('.gdtf') && !name.endsWith('.zip'))
-			throw new ApiError(415, 'A zip archive is read only as a GDTF fixture type (.gdtf).');
+			throw new UnsupportedTypeError('A zip archive is read only as a GDTF fixture type (.gdtf).');
 		const { type, dataVersion, warnings } = parseGdtf(upload.bytes);
 		const exists = listTypes(projectId).some(
 			(t) => t.maker.toLowerCase() === type.maker.toLowerCase() && t.model.toLowerCase() === type.model.toLowerCase()
 		);
 		if (apply && exists)
-			throw new ApiError(
-				409,
-				`${type.maker} ${type.model} is already a fixture type in this project; rename or delete it first.`,
-				{ code: 'duplicate' }
+			throw new DuplicateError(
+				`${type.maker} ${type.model} is already a fixture type in this project; rename or delete it first.`
 			);
 		const modes = type.modes.map((m) => ({ name: m.name, slots: slotsOf(m.channels), channels: m.channels.length }));
 		const created = apply ? createType(projectId, userId, type) : type;
 		return { kind: 'gdtf', applied: apply, dataVersion, warnings, type: created, modes, exists };
 	}
-	if (name.endsWith('.gdtf')) throw new ApiError(415, 'This .gdtf file is not a zip archive.');
+	if (name.endsWith('.gdtf')) throw new UnsupportedTypeError('This .gdtf file is not a zip archive.');
 	if (kind === 'json')
-		throw new ApiError(415, 'A project backup (.json) is imported as a new project: POST /api/projects/import-json.');
-	if (kind === 'binary') throw new ApiError(415, 'The file is neither a CSV patch nor a GDTF fixture type.');
+		throw new UnsupportedTypeError(
+			'A project backup (.json) is imported as a new project: POST /api/projects/import-json.'
+		);
+	if (kind === 'binary') throw new UnsupportedTypeError('The file is neither a CSV patch nor a GDTF fixture type.');
 	return importCsv(projectId, userId, decodeText(upload.bytes), apply);
 }

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { ApiError } from '../api';
+import { DomainError, InvalidError, UnprocessableError } from '../errors';
 import { createFixtures } from '../db/fixtures';
 import { db } from '../db/index';
 import { createProject, projectShape, type Project } from '../db/projects';
@@ -44,7 +44,7 @@ export function importProjectJson(userId: string, text: string): Project {
 	try {
 		raw = JSON.parse(text);
 	} catch {
-		throw new ApiError(400, 'The file is not valid JSON.', { code: 'invalid-file' });
+		throw new InvalidError('The file is not valid JSON.', undefined, { code: 'invalid-file' });
 	}
 	const issues: ImportIssue[] = [];
 	const add = (prefix: (string | number)[], err: z.ZodError) => {
@@ -54,7 +54,9 @@ export function importProjectJson(userId: string, text: string): Project {
 	const env = envelope.safeParse(raw);
 	if (!env.success) {
 		add([], env.error);
-		throw new ApiError(422, 'The file is not a project export this server reads.', { code: 'invalid-file', issues });
+		throw new UnprocessableError('The file is not a project export this server reads.', issues, {
+			code: 'invalid-file'
+		});
 	}
 	const file = env.data;
 	const project = projectCreate.safeParse(file.project);
@@ -80,10 +82,10 @@ export function importProjectJson(userId: string, text: string): Project {
 		return { id: f.id, index: i, data: r.data };
 	});
 	if (issues.length)
-		throw new ApiError(
-			422,
+		throw new UnprocessableError(
 			`The file has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}; nothing was created.`,
-			{ code: 'invalid-file', issues }
+			issues,
+			{ code: 'invalid-file' }
 		);
 
 	return db().transaction(() => {
@@ -134,24 +136,25 @@ export function importProjectJson(userId: string, text: string): Project {
 			if (batch.length === 0) continue;
 			const inputs = batch.map(remap);
 			if (missing.length)
-				throw new ApiError(422, 'The file refers to rows it does not contain; nothing was created.', {
-					code: 'invalid-file',
-					issues: missing
+				throw new UnprocessableError('The file refers to rows it does not contain; nothing was created.', missing, {
+					code: 'invalid-file'
 				});
 			let made;
 			try {
 				made = createFixtures(pid, userId, inputs);
 			} catch (e) {
-				if (!(e instanceof ApiError)) throw e;
-				const list = (e.extra.issues as { path: (string | number)[]; message: string }[] | undefined) ?? [];
-				throw new ApiError(422, `A fixture in the file is not valid here: ${e.message}`, {
-					code: 'invalid-file',
-					issues: list.map((i) => {
+				if (!(e instanceof DomainError)) throw e;
+				const list = e.issues() ?? [];
+				throw new UnprocessableError(
+					`A fixture in the file is not valid here: ${e.message}`,
+					list.map((i) => {
+						if (!('path' in i)) return i;
 						const at = batch.length > 1 && typeof i.path[0] === 'number' ? i.path[0] : 0;
 						const rest = batch.length > 1 ? i.path.slice(1) : i.path;
 						return { row: null, field: ['fixtures', batch[at].index, ...rest].join('.'), message: i.message };
-					})
-				});
+					}),
+					{ code: 'invalid-file' }
+				);
 			}
 			batch.forEach((f, i) => fixtureMap.set(f.id, made[i].id));
 		}

@@ -1,5 +1,5 @@
 import { Unzip, UnzipInflate } from 'fflate';
-import { ApiError } from '../api';
+import { InvalidError, TooLargeError, UnsupportedTypeError, type DomainError } from '../errors';
 
 // Everything an upload must pass before its content is believed: a size cap,
 // content sniffing (never the file name), a zip reader that stops inflating at
@@ -54,7 +54,7 @@ export function decodeText(bytes: Uint8Array): string {
 	try {
 		return new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes);
 	} catch {
-		throw new ApiError(415, 'The file is not UTF-8 text.', { code: 'unsupported-type' });
+		throw new UnsupportedTypeError('The file is not UTF-8 text.');
 	}
 }
 
@@ -90,36 +90,42 @@ export function safeUnzip(
 	const out = new Map<string, Uint8Array>();
 	let entries = 0;
 	let inflated = 0;
-	let failure: ApiError | null = null;
-	const fail = (e: ApiError) => {
+	let failure: DomainError | null = null;
+	const fail = (e: DomainError) => {
 		failure ??= e;
 	};
 	const unzip = new Unzip((file) => {
 		if (failure) return;
 		entries++;
 		if (entries > maxEntries)
-			return fail(new ApiError(400, `The archive has more than ${maxEntries} entries.`, { code: 'zip-entries' }));
+			return fail(
+				new InvalidError(`The archive has more than ${maxEntries} entries.`, undefined, { code: 'zip-entries' })
+			);
 		if (unsafeEntryName(file.name))
 			return fail(
-				new ApiError(400, `The archive holds an unsafe entry name: "${file.name.slice(0, 120)}".`, { code: 'zip-path' })
+				new InvalidError(`The archive holds an unsafe entry name: "${file.name.slice(0, 120)}".`, undefined, {
+					code: 'zip-path'
+				})
 			);
 		if (!want(file.name)) return;
 		if (file.compression !== 0 && file.compression !== 8)
 			return fail(
-				new ApiError(400, `"${file.name}" uses a zip compression other than deflate.`, { code: 'zip-method' })
+				new InvalidError(`"${file.name}" uses a zip compression other than deflate.`, undefined, { code: 'zip-method' })
 			);
 		const chunks: Uint8Array[] = [];
 		file.ondata = (err, data, final) => {
 			if (failure) return;
 			if (err)
 				return fail(
-					new ApiError(400, `"${file.name}" could not be inflated: the archive is damaged.`, { code: 'zip-damaged' })
+					new InvalidError(`"${file.name}" could not be inflated: the archive is damaged.`, undefined, {
+						code: 'zip-damaged'
+					})
 				);
 			inflated += data.length;
 			if (inflated > maxInflated) {
 				file.terminate();
 				return fail(
-					new ApiError(413, `The archive inflates past ${Math.round(maxInflated / 1024 / 1024)} MB; refused.`, {
+					new TooLargeError(`The archive inflates past ${Math.round(maxInflated / 1024 / 1024)} MB; refused.`, {
 						code: 'zip-too-large'
 					})
 				);
@@ -136,7 +142,7 @@ export function safeUnzip(
 			unzip.push(bytes.subarray(i, end), end === bytes.length);
 		}
 	} catch {
-		fail(new ApiError(400, 'The archive is damaged or not a zip file.', { code: 'zip-damaged' }));
+		fail(new InvalidError('The archive is damaged or not a zip file.', undefined, { code: 'zip-damaged' }));
 	}
 	if (failure) throw failure;
 	return out;
@@ -156,6 +162,8 @@ function concat(chunks: Uint8Array[]): Uint8Array {
 /** Refuses any DTD: no entity expansion (billion laughs) and no external fetch can follow from a file we never parse. */
 export function guardXml(text: string): void {
 	if (/<!DOCTYPE/i.test(text) || /<!ENTITY/i.test(text)) {
-		throw new ApiError(400, 'The XML declares a DOCTYPE or entities; those are refused.', { code: 'xml-dtd' });
+		throw new InvalidError('The XML declares a DOCTYPE or entities; those are refused.', undefined, {
+			code: 'xml-dtd'
+		});
 	}
 }

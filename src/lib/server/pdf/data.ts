@@ -1,5 +1,5 @@
 import { and, desc, eq, gt } from 'drizzle-orm';
-import { ApiError } from '../api';
+import { NotFoundError } from '../errors';
 import { db } from '../db/index';
 import {
 	computeFor,
@@ -85,7 +85,7 @@ function parseSnapshot(raw: unknown, current: Project): RevisionSnapshot {
 
 export function loadSheetData(projectId: number, revisionNumber?: number, now = new Date()): SheetData {
 	const row = getProject(projectId);
-	if (!row) throw new ApiError(404, 'No such project.');
+	if (!row) throw new NotFoundError('No such project.');
 	const current = projectShape(row);
 	const latestRevision = db()
 		.select({ id: revisions.id, number: revisions.number })
@@ -115,7 +115,7 @@ export function loadSheetData(projectId: number, revisionNumber?: number, now = 
 		.from(revisions)
 		.where(and(eq(revisions.projectId, projectId), eq(revisions.number, revisionNumber)))
 		.get();
-	if (!rev) throw new ApiError(404, `No revision ${revisionNumber} in this project.`);
+	if (!rev) throw new NotFoundError(`No revision ${revisionNumber} in this project.`);
 	const snap = parseSnapshot(rev.snapshot, current);
 	const patch = computeFor(snap.project, snap.types, snap.universes, snap.receivers, snap.fixtures);
 	const later = db()

@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/api';
+import { DuplicateError } from '$lib/server/errors';
 import { requireRole } from '$lib/server/authz';
 import { addMember, listMembers, memberRole } from '$lib/server/db/projects';
 import { findUserByEmail } from '$lib/server/db/users';
@@ -35,10 +36,7 @@ export const POST: RequestHandler = api(async (event) => {
 		return json({ status: 'member', ...member }, { status: 201 });
 	}
 	if (existing) {
-		return json(
-			{ error: { code: 'exists', message: `${email} is already a member; change their role instead.` } },
-			{ status: 409 }
-		);
+		throw new DuplicateError(`${email} is already a member; change their role instead.`, undefined, { code: 'exists' });
 	}
 	const invitation = await inviteMember({ projectId, email, role, invitedBy: user });
 	return json({ status: 'invited', ...invitation }, { status: 201 });
