@@ -174,7 +174,8 @@ export const PAGES: Row[] = [
 	row('GET',  '/projects/[id]/types',                                 [200, 200, 200, 200, 404, 303, 303]),
 	row('GET',  '/projects/[id]/radio',                                 [200, 200, 200, 200, 404, 303, 303]),
 	row('GET',  '/projects/[id]/fixtures/[n]',                          [200, 200, 200, 200, 404, 303, 303], () => ({ params: { n: 1 } })),
-	row('GET',  '/projects/[id]/import',                                [200, 200, 200, 200, 404, 303, 303])
+	row('GET',  '/projects/[id]/import',                                [200, 200, 200, 200, 404, 303, 303]),
+	row('GET',  '/projects/[id]/settings',                              [200, 403, 403, 403, 404, 303, 303])
 ];
 
 export const TYPE_BODY = {

@@ -8,7 +8,7 @@ const isoDate = z
 	.regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date like 2027-03-08.')
 	.nullable();
 
-export const projectCreate = z.strictObject({
+const projectFields = z.strictObject({
 	name: z.string().trim().min(1, 'Give the project a name.').max(120),
 	venue: z.string().trim().max(200).default(''),
 	startsOn: isoDate.optional(),
@@ -17,7 +17,15 @@ export const projectCreate = z.strictObject({
 	artnetOffset: z.union([z.literal(0), z.literal(1)]).default(1)
 });
 
-export const projectPatch = projectCreate.partial().extend({ version: z.int().positive() });
+/** A project's last day is never before its first (checked when both are given). */
+function datesInOrder(p: { startsOn?: string | null; endsOn?: string | null }, ctx: z.RefinementCtx): void {
+	if (p.startsOn && p.endsOn && p.endsOn < p.startsOn)
+		ctx.addIssue({ code: 'custom', path: ['endsOn'], message: 'The last day cannot be before the first day.' });
+}
+
+export const projectCreate = projectFields.superRefine(datesInOrder);
+
+export const projectPatch = projectFields.partial().extend({ version: z.int().positive() }).superRefine(datesInOrder);
 
 export const ROLE_VALUES = ['owner', 'programmer', 'electrician', 'viewer'] as const;
 

@@ -1,6 +1,6 @@
 import { requireRole } from '$lib/server/authz';
 import { action, parseWith } from '$lib/server/forms';
-import { domain, num, rowId, text } from '$lib/server/form-fields';
+import { num, rowId, text } from '$lib/server/form-fields';
 import { loadPatchCached } from '$lib/server/db/patch';
 import { assignReceiver, createReceiver, deleteReceiver, updateReceiver } from '$lib/server/db/receivers';
 import { receiverCreate, receiverPatch } from '$lib/schemas/receiver';
@@ -66,18 +66,18 @@ export const actions: Actions = {
 	create: action('create', async (event, form) => {
 		const { projectId, user } = requireRole(event, event.params.id, 'programmer');
 		const input = parseWith(receiverCreate, receiverFields(form));
-		const r = domain(() => createReceiver(projectId, user.id, input));
+		const r = createReceiver(projectId, user.id, input);
 		return { done: `Receiver "${r.name}" added.` };
 	}),
 	update: action('update', async (event, form) => {
 		const { projectId, user } = requireRole(event, event.params.id, 'programmer');
 		const patch = parseWith(receiverPatch, { ...receiverFields(form), version: num(form, 'version') });
-		const r = domain(() => updateReceiver(projectId, user.id, rowId(form), patch));
+		const r = updateReceiver(projectId, user.id, rowId(form), patch);
 		return { done: `Receiver "${r.name}" saved.` };
 	}),
 	delete: action('delete', async (event, form) => {
 		const { projectId, user } = requireRole(event, event.params.id, 'programmer');
-		domain(() => deleteReceiver(projectId, user.id, rowId(form), text(form, 'detach') === '1'));
+		deleteReceiver(projectId, user.id, rowId(form), text(form, 'detach') === '1');
 		return { done: 'Receiver deleted.' };
 	}),
 	preview: action('preview', async (event, form) => {
@@ -85,7 +85,7 @@ export const actions: Actions = {
 		const id = rowId(form);
 		const before = loadPatchCached(projectId);
 		const o = assignOptions(form);
-		const result = domain(() => assignReceiver(projectId, user.id, id, { ...o, apply: false }));
+		const result = assignReceiver(projectId, user.id, id, { ...o, apply: false });
 		return { preview: summarizeAssign(id, before.fixtures, result, o.keepExisting) };
 	}),
 	assign: action('assign', async (event, form) => {
@@ -93,7 +93,7 @@ export const actions: Actions = {
 		const id = rowId(form);
 		const before = loadPatchCached(projectId);
 		const o = assignOptions(form);
-		const result = domain(() => assignReceiver(projectId, user.id, id, { ...o, apply: true }));
+		const result = assignReceiver(projectId, user.id, id, { ...o, apply: true });
 		return { assigned: summarizeAssign(id, before.fixtures, result, o.keepExisting) };
 	})
 };

@@ -1,6 +1,6 @@
 import { requireRole } from '$lib/server/authz';
 import { action, parseWith } from '$lib/server/forms';
-import { domain, num, rowId, text } from '$lib/server/form-fields';
+import { num, rowId, text } from '$lib/server/form-fields';
 import { loadPatchCached } from '$lib/server/db/patch';
 import { createUniverse, deleteUniverse, updateUniverse } from '$lib/server/db/universes';
 import { universeCreate, universePatch } from '$lib/schemas/universe';
@@ -37,7 +37,7 @@ export const actions: Actions = {
 			transport: text(form, 'transport'),
 			notes: text(form, 'notes')
 		});
-		const u = domain(() => createUniverse(projectId, user.id, input));
+		const u = createUniverse(projectId, user.id, input);
 		return { done: `Universe ${u.number} added.` };
 	}),
 	update: action('update', async (event, form) => {
@@ -49,12 +49,12 @@ export const actions: Actions = {
 			notes: text(form, 'notes'),
 			version: num(form, 'version')
 		});
-		const u = domain(() => updateUniverse(projectId, user.id, rowId(form), patch));
+		const u = updateUniverse(projectId, user.id, rowId(form), patch);
 		return { done: `Universe ${u.number} saved.` };
 	}),
 	delete: action('delete', async (event, form) => {
 		const { projectId, user } = requireRole(event, event.params.id, 'programmer');
-		domain(() => deleteUniverse(projectId, user.id, rowId(form), text(form, 'detach') === '1'));
+		deleteUniverse(projectId, user.id, rowId(form), text(form, 'detach') === '1');
 		return { done: 'Universe deleted.' };
 	})
 };
