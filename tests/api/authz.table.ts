@@ -110,7 +110,7 @@ export const ROUTES: Row[] = [
 	row('PATCH',  '/api/projects/[pid]/universes/[id]',                 [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.universe()).id }, body: { name: 'Renamed', version: 1 } })),
 	row('DELETE', '/api/projects/[pid]/universes/[id]',                 [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.universe()).id } })),
 	row('GET',    '/api/projects/[pid]/types',                          [200, 200, 200, 200, 404, 401, 401]),
-	row('POST',   '/api/projects/[pid]/types',                          [201, 201, 403, 403, 404, 401, 401], () => ({ body: TYPE_BODY })),
+	row('POST',   '/api/projects/[pid]/types',                          [201, 201, 403, 403, 404, 401, 401], (c) => ({ body: { ...TYPE_BODY, model: `Probe Panel ${c.seq()}` } })),
 	row('GET',    '/api/projects/[pid]/types/[id]',                     [200, 200, 200, 200, 404, 401, 401], async (c) => ({ params: { id: (await c.type()).id } })),
 	row('PATCH',  '/api/projects/[pid]/types/[id]',                     [200, 200, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.type()).id }, body: { notes: 'checked', version: 1 } })),
 	row('DELETE', '/api/projects/[pid]/types/[id]',                     [204, 204, 403, 403, 404, 401, 401], async (c) => ({ params: { id: (await c.type()).id } })),
@@ -194,7 +194,8 @@ export const PAGES: Row[] = [
 	row('GET',  '/projects/[id]/radio',                                 [200, 200, 200, 200, 404, 303, 303]),
 	row('GET',  '/projects/[id]/fixtures/[n]',                          [200, 200, 200, 200, 404, 303, 303], () => ({ params: { n: 1 } })),
 	row('GET',  '/projects/[id]/power',                                 [200, 200, 200, 200, 404, 303, 303]),
-	row('GET',  '/projects/[id]/import',                                [200, 200, 200, 200, 404, 303, 303])
+	row('GET',  '/projects/[id]/import',                                [200, 200, 200, 200, 404, 303, 303]),
+	row('GET',  '/projects/[id]/settings',                              [200, 403, 403, 403, 404, 303, 303])
 ];
 
 export const TYPE_BODY = {
@@ -288,7 +289,11 @@ export async function makeCtx(db: Db, pid: number, owner: Client, crew: Record<R
 			return p.id;
 		},
 		universe: () => post('/universes', { number: 1000 + seq() }),
-		type: () => post('/types', TYPE_BODY).then((x) => ({ id: x.id, modeId: x.modes[0].id })),
+		type: () =>
+			post('/types', { ...TYPE_BODY, model: `Probe Panel ${seq()}` }).then((x) => ({
+				id: x.id,
+				modeId: x.modes[0].id
+			})),
 		receiver: () => post('/receivers', { name: `R${seq()}` }),
 		async fixture(kind) {
 			const k = kind ?? kinds[turn++ % kinds.length];

@@ -139,6 +139,22 @@ describe('fixture types (modes inline)', () => {
 		expect(list.types.some((x: { id: number }) => x.id === t.id)).toBe(true);
 	});
 
+	it('refuses a second type with the same maker + model in any letter case, naming the pair (issue 16)', async () => {
+		const body = { maker: 'Dupeworks', model: 'Panel 4', modes: [rgbw16] };
+		expect((await as.programmer.post(`${base()}/types`, body)).status).toBe(201);
+		const again = await as.programmer.post(`${base()}/types`, { ...body, maker: ' dupeWORKS', model: 'panel 4' });
+		expect(again.status).toBe(409);
+		const err = (await again.json()).error;
+		expect(err.code).toBe('duplicate');
+		expect(err.message).toContain('Dupeworks Panel 4');
+		const other = await (await as.programmer.post(`${base()}/types`, { ...body, model: 'Panel 8' })).json();
+		const rename = await as.programmer.patch(`${base()}/types/${other.id}`, {
+			model: 'PANEL 4',
+			version: other.version
+		});
+		expect(rename.status).toBe(409);
+	});
+
 	it('refuses two channels on one slot, bits outside 8/16/24, offset 0, and a footprint past 512', async () => {
 		const cases = [
 			[

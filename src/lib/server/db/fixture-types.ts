@@ -1,6 +1,6 @@
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { recordAudit } from './audit';
-import { InUseError, InvalidError, NotFoundError, StaleVersionError } from '../errors';
+import { DuplicateError, InUseError, InvalidError, NotFoundError, StaleVersionError } from '../errors';
 import { db } from './index';
 import { listTypes, type TypeShape } from './patch';
 import { fixtureTypes, fixtures, modeChannels, modes } from './schema';
@@ -73,6 +73,25 @@ function fixturesUsing(column: typeof fixtures.typeId | typeof fixtures.modeId, 
 		.all();
 }
 
+/**
+ * Maker + model names one type per project, whatever the letter case: a CSV row naming them
+ * must find exactly one (issue 16: a 1-slot duplicate was picked instead of the 4-slot mode).
+ */
+function refuseDuplicate(projectId: number, maker: string, model: string, exceptId?: number): void {
+	const key = (a: string, b: string) => `${a.trim().toLocaleLowerCase()}\u0000${b.trim().toLocaleLowerCase()}`;
+	const wanted = key(maker, model);
+	const clash = db()
+		.select({ id: fixtureTypes.id, maker: fixtureTypes.maker, model: fixtureTypes.model })
+		.from(fixtureTypes)
+		.where(eq(fixtureTypes.projectId, projectId))
+		.all()
+		.find((t) => t.id !== exceptId && key(t.maker, t.model) === wanted);
+	if (clash)
+		throw new DuplicateError(`${clash.maker} ${clash.model} is already a fixture type in this project.`, [
+			{ path: ['model'], message: `${clash.maker} ${clash.model} already exists; edit that type instead.` }
+		]);
+}
+
 export function createType(projectId: number, userId: string, input: TypeCreate): TypeShape {
 	return db().transaction(() => {
 		if (input.modes.some((m) => m.id !== undefined)) {
@@ -80,6 +99,7 @@ export function createType(projectId: number, userId: string, input: TypeCreate)
 				{ path: ['modes'], message: 'Leave mode ids out on create.' }
 			]);
 		}
+		refuseDuplicate(projectId, input.maker, input.model);
 		const row = db()
 			.insert(fixtureTypes)
 			.values({ projectId, maker: input.maker, model: input.model, notes: input.notes, drawFloor: input.drawFloor })
@@ -104,6 +124,8 @@ export function updateType(projectId: number, userId: string, id: number, patch:
 		const before = getType(projectId, id)!;
 		const { version, modes: modeList, ...fields } = patch;
 		if (before.version !== version) throw new StaleVersionError(before);
+		if (fields.maker !== undefined || fields.model !== undefined)
+			refuseDuplicate(projectId, fields.maker ?? before.maker, fields.model ?? before.model, id);
 		const changed = db()
 			.update(fixtureTypes)
 			.set({ ...fields, version: sql`${fixtureTypes.version} + 1`, updatedAt: new Date() })
