@@ -24,7 +24,9 @@ const FIELD_WORDS: Record<string, string> = {
 export function fieldWord(path: readonly PropertyKey[] | undefined): string {
 	const key = [...(path ?? [])].reverse().find((p): p is string => typeof p === 'string' && !/^\d+$/.test(p));
 	if (!key) return 'this value';
-	return FIELD_WORDS[key] ?? key.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
+	// own keys only: a field named `constructor` must not read Object.prototype's
+	if (Object.hasOwn(FIELD_WORDS, key)) return FIELD_WORDS[key];
+	return key.replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase();
 }
 
 const capital = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);

@@ -56,3 +56,10 @@ describe('human validation messages', () => {
 		expect(fieldWord([])).toBe('this value');
 	});
 });
+
+describe('field names that are also Object.prototype members', () => {
+	it('a field called constructor is worded as itself, not read from the prototype (fuzz found a 500 here)', () => {
+		expect(fieldWord(['labels', 'constructor'])).toBe('constructor');
+		expect(fieldWord(['toString'])).toBe('to string');
+	});
+});

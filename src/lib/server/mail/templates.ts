@@ -181,7 +181,7 @@ export function newRevisionMail(
 ): OutgoingMail {
 	return composeMail({
 		to,
-		subject: `Revision ${input.revision} is ready to review on Patchwright`,
+		subject: `Patchwright: revision ${input.revision} is ready to review`,
 		lines: [
 			`Revision ${input.revision} of a lighting patch you review is ready.`,
 			sendersWords('Project name', input.projectName),
