@@ -48,9 +48,12 @@ export interface RefreshFigures {
 export function refreshFigures(highestSlot: number): RefreshFigures {
 	const bestHz = dmxFrameTiming(highestSlot).rateHz;
 	const fullHz = dmxFrameTiming(512).rateHz;
+	// an empty universe has no best case to promise: only the full-frame figure means anything
 	const text =
 		highestSlot >= 512
 			? `${Math.floor(fullHz)} Hz at 512 slots`
-			: `up to ${Math.floor(bestHz)} Hz if the transmitter sends ${highestSlot} slot${highestSlot === 1 ? '' : 's'}; ${Math.floor(fullHz)} Hz at 512`;
+			: highestSlot <= 0
+				? `nothing patched yet; ${Math.floor(fullHz)} Hz at 512`
+				: `up to ${Math.floor(bestHz)} Hz if the transmitter sends ${highestSlot} slot${highestSlot === 1 ? '' : 's'}; ${Math.floor(fullHz)} Hz at 512`;
 	return { highestSlot, bestHz, fullHz, text };
 }

@@ -34,5 +34,7 @@ describe('refresh shown as both figures (ANSI E1.11 timing)', () => {
 	});
 	it('a full universe has one figure', () => {
 		expect(refreshFigures(512).text).toBe('44 Hz at 512 slots');
+		// an empty universe promised 830 Hz 'if the transmitter sends 0 slots' before
+		expect(refreshFigures(0).text).toBe('nothing patched yet; 44 Hz at 512');
 	});
 });
