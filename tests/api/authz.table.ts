@@ -198,6 +198,97 @@ export const PAGES: Row[] = [
 	row('GET',  '/projects/[id]/settings',                              [200, 403, 403, 403, 404, 303, 303])
 ];
 
+// Form actions (`export const actions` in +page.server.ts): one line per action with the least role
+// that may run it. Callers below it are refused — a member 403, the outsider 404 (never reveal the
+// project), no session 401 — and nothing is written; callers at or above it reach the action, whose
+// own answer (`allowed`: 400 for the empty form each probe sends, 200/303 where no field is needed,
+// 404 for a row the empty form does not name — a member never gets 404 from requireRole) proves the
+// role check let them through.
+// tests/api/authz.test.ts reads every actions object and fails when an action has no line here.
+export type MinRole = Role | 'user' | 'anyone';
+
+export interface ActionRow {
+	page: string;
+	name: string;
+	min: MinRole;
+	allowed: number;
+	/** route params for the page ([id] is the project under test, [n] its fixture number 1) */
+	params?: Record<string, string | number>;
+	/** signs its caller out (the runner signs the crew in again afterwards) */
+	signsOut?: boolean;
+}
+
+const act = (page: string, name: string, min: MinRole, allowed: number, extra: Partial<ActionRow> = {}): ActionRow => ({
+	page,
+	name,
+	min,
+	allowed,
+	...extra
+});
+
+const RANK: Record<string, number> = { viewer: 1, electrician: 2, programmer: 3, owner: 4 };
+
+/** The status each caller should see for an action line, in CALLERS order. */
+export function actionExpect(a: ActionRow): Expect {
+	return CALLERS.map((caller) => {
+		if (a.min === 'anyone') return a.allowed;
+		if (caller === 'anonymous' || caller === 'review') return 401;
+		if (a.min === 'user') return a.allowed;
+		if (caller === 'outsider') return 404;
+		return RANK[caller] >= RANK[a.min] ? a.allowed : 403;
+	}) as Expect;
+}
+
+// prettier-ignore
+export const ACTIONS: ActionRow[] = [
+	//  page                                      action             least role     allowed
+	act('/',                                      'create',          'user',        400),
+	act('/projects/[id]/fixtures/[n]',            'state',           'electrician', 400, { params: { n: 1 } }),
+	act('/projects/[id]/fixtures/[n]',            'note',            'electrician', 400, { params: { n: 1 } }),
+	act('/projects/[id]/settings',                'update',          'owner',       400),
+	act('/projects/[id]/settings',                'delete',          'owner',       400),
+	act('/projects/[id]/members',                 'invite',          'owner',       400),
+	act('/projects/[id]/members',                 'role',            'owner',       400),
+	act('/projects/[id]/members',                 'remove',          'owner',       400),
+	act('/projects/[id]/members',                 'handover',        'owner',       400),
+	act('/projects/[id]/members',                 'resend',          'owner',       400),
+	act('/projects/[id]/members',                 'revoke',          'owner',       400),
+	act('/projects/[id]/members',                 'resendMail',      'owner',       400),
+	act('/projects/[id]/revisions',               'revise',          'programmer',  303),
+	act('/projects/[id]/revisions',               'link',            'programmer',  200),
+	act('/projects/[id]/revisions',               'revoke',          'programmer',  404),
+	act('/projects/[id]/revisions',               'signoff',         'viewer',      404),
+	act('/projects/[id]/power',                   'addPack',         'programmer',  400),
+	act('/projects/[id]/power',                   'addPreset',       'programmer',  400),
+	act('/projects/[id]/power',                   'editPack',        'programmer',  400),
+	act('/projects/[id]/power',                   'deletePack',      'programmer',  404),
+	act('/projects/[id]/power',                   'addCircuit',      'programmer',  400),
+	act('/projects/[id]/power',                   'editCircuit',     'programmer',  400),
+	act('/projects/[id]/power',                   'deleteCircuit',   'programmer',  404),
+	act('/projects/[id]/power',                   'setDay',          'programmer',  400),
+	act('/projects/[id]/power',                   'setFeed',         'programmer',  400),
+	act('/projects/[id]/universes',               'create',          'programmer',  400),
+	act('/projects/[id]/universes',               'update',          'programmer',  400),
+	act('/projects/[id]/universes',               'delete',          'programmer',  404),
+	act('/projects/[id]/radio',                   'create',          'programmer',  400),
+	act('/projects/[id]/radio',                   'update',          'programmer',  400),
+	act('/projects/[id]/radio',                   'delete',          'programmer',  404),
+	act('/projects/[id]/radio',                   'preview',         'programmer',  404),
+	act('/projects/[id]/radio',                   'assign',          'programmer',  404),
+	act('/account',                               'rename',          'user',        400),
+	act('/account',                               'password',        'user',        400),
+	act('/account',                               'passwordLink',    'user',        200),
+	act('/account',                               'signOutEverywhere', 'user',      303, { signsOut: true }),
+	act('/account',                               'delete',          'user',        400),
+	act('/account/password',                      'default',         'anyone',      400),
+	act('/account/password/[token]',              'default',         'anyone',      400, { params: { token: 'not-a-real-token' } }),
+	act('/signup',                                'default',         'anyone',      400),
+	act('/signup/confirm/[token]',                'default',         'anyone',      400, { params: { token: 'not-a-real-token' } }),
+	// authorised by the review token in the path ([token] is a valid one), whoever holds it
+	act('/review/[token]',                        'signoff',         'anyone',      400),
+	act('/invite/[token]',                        'default',         'user',        404, { params: { token: 'not-a-real-invitation' } })
+];
+
 export const TYPE_BODY = {
 	maker: 'Testworks',
 	model: 'Probe Panel',

@@ -6,7 +6,19 @@ import { fingerprint } from '../helpers/fingerprint';
 import { Client, startServer, type TestServer } from '../helpers/server';
 import { reviewLinks } from '../../src/lib/server/db/schema';
 import { hashToken, newToken } from '../../src/lib/server/tokens';
-import { CALLERS, makeCtx, PAGES, ROUTES, type Caller, type Ctx, type Req, type Row } from './authz.table';
+import {
+	ACTIONS,
+	actionExpect,
+	CALLERS,
+	makeCtx,
+	PAGES,
+	ROUTES,
+	type ActionRow,
+	type Caller,
+	type Ctx,
+	type Req,
+	type Row
+} from './authz.table';
 
 // The authorization matrix (DESIGN.md "Roles": every API route and page load checks the
 // role on the server). Routes are discovered from the file system, so a route without a
@@ -35,7 +47,15 @@ function discover() {
 	const pages = new Set(
 		files.filter((x) => /\/\+page(\.server)?\.(ts|js|svelte)$/.test(x)).map((f) => `GET ${routeId(f)}`)
 	);
-	return { endpoints, pages };
+	// form actions: the top-level keys of `export const actions = { … }` (one tab deep, as prettier lays them out)
+	const actions = new Set<string>();
+	for (const f of files.filter((x) => /\/\+page\.server\.(ts|js)$/.test(x))) {
+		const text = readFileSync(f, 'utf8');
+		const at = text.search(/export\s+const\s+actions\b/);
+		if (at < 0) continue;
+		for (const m of text.slice(at).matchAll(/^\t(\w+)\s*:/gm)) actions.add(`POST ${routeId(f)}?/${m[1]}`);
+	}
+	return { endpoints, pages, actions };
 }
 
 class ReviewHolder extends Client {
@@ -58,6 +78,7 @@ let ctx: Ctx;
 let foreign: Ctx;
 let reviewToken: string;
 const as = {} as Record<Caller, Client>;
+let signInAgain: () => Promise<void>;
 
 beforeAll(async () => {
 	server = await startServer();
@@ -68,6 +89,15 @@ beforeAll(async () => {
 		as[role] = await server.signIn(crew[role].email, PASSWORD);
 	// the outsider owns another project: "a member somewhere" is not "a member here"
 	as.outsider = await server.signIn(other.crew.owner.email, PASSWORD);
+	// after "sign out everywhere": the same clients (ctx holds the owners') sign in afresh
+	signInAgain = async () => {
+		for (const role of ['owner', 'programmer', 'electrician', 'viewer'] as const) {
+			as[role].cookies.clear();
+			await as[role].signIn(crew[role].email, PASSWORD);
+		}
+		as.outsider.cookies.clear();
+		await as.outsider.signIn(other.crew.owner.email, PASSWORD);
+	};
 	as.anonymous = server.anonymous();
 	reviewToken = newToken();
 	db.insert(reviewLinks)
@@ -105,7 +135,7 @@ function send(client: Client, row: Row, req: Req, pid: number, page = false): Pr
 }
 
 describe('the table covers exactly the routes that exist', () => {
-	const { endpoints, pages } = discover();
+	const { endpoints, pages, actions } = discover();
 	const key = (r: Row) => `${r.method} ${r.route}`;
 
 	it('every +server.ts method has a line, and every line names a route that exists', () => {
@@ -118,6 +148,20 @@ describe('the table covers exactly the routes that exist', () => {
 		expect(
 			[...endpoints].filter((k) => !table.includes(k)),
 			'routes with no line in authz.table.ts'
+		).toEqual([]);
+		expect(new Set(table).size).toBe(table.length);
+	});
+
+	it('every form action has a line with its least role, and every line names an action that exists', () => {
+		const table = ACTIONS.map((a) => `POST ${a.page}?/${a.name}`);
+		expect(actions.size).toBeGreaterThan(30);
+		expect(
+			table.filter((k) => !actions.has(k)),
+			'lines for actions that no longer exist'
+		).toEqual([]);
+		expect(
+			[...actions].filter((k) => !table.includes(k)),
+			'form actions with no line in authz.table.ts ACTIONS'
 		).toEqual([]);
 		expect(new Set(table).size).toBe(table.length);
 	});
@@ -179,6 +223,41 @@ describe('the matrix: each route × caller answers the expected status', () => {
 		}
 		const member = await as.viewer.get(`/projects/${ctx.pid}/__data.json`);
 		expect(await member.text()).toMatch(/Test project/);
+	});
+});
+
+/** Posts an empty form to a named action the way `use:enhance` does, and reads the status SvelteKit decided. */
+async function runAction(client: Client, a: ActionRow): Promise<number> {
+	const params: Record<string, string | number> = { id: ctx.pid, token: reviewToken, ...a.params };
+	const path = a.page.replace(/\[(\w+)\]/g, (_, name: string) => encodeURIComponent(String(params[name])));
+	const res = await client.fetch(a.name === 'default' ? path : `${path}?/${a.name}`, {
+		method: 'POST',
+		headers: { accept: 'application/json', 'x-sveltekit-action': 'true' },
+		body: new FormData()
+	});
+	const text = await res.text();
+	try {
+		const body = JSON.parse(text) as { type?: string; status?: number };
+		// failure, success and redirect travel as 200 with their own status; a thrown error() is the HTTP status
+		return body.type && body.type !== 'error' && body.status ? body.status : res.status;
+	} catch {
+		return res.status;
+	}
+}
+
+describe('the form-action matrix: each action × caller is refused below its least role', () => {
+	it.each(ACTIONS.map((a) => [`${a.page}?/${a.name} (${a.min})`, a] as const))('%s', async (_, a) => {
+		const got: Record<string, number> = {};
+		const want: Record<string, number> = {};
+		for (const [i, caller] of CALLERS.entries()) {
+			const before = fingerprint(server.db(), ctx.pid);
+			got[caller] = await runAction(as[caller], a);
+			want[caller] = actionExpect(a)[i];
+			if ([401, 403, 404].includes(got[caller]) && a.allowed < 401)
+				expect(fingerprint(server.db(), ctx.pid), `${caller} refused but the project changed`).toBe(before);
+		}
+		expect(got).toEqual(want);
+		if (a.signsOut) await signInAgain();
 	});
 });
 
