@@ -1,95 +1,34 @@
-import { z } from 'zod';
-import { DomainError, InvalidError, UnprocessableError } from '../errors';
+import { DomainError, UnprocessableError } from '../errors';
 import { createFixtures } from '../db/fixtures';
 import { db } from '../db/index';
 import { createProject, projectShape, type Project } from '../db/projects';
 import { createReceiver } from '../db/receivers';
 import { createType } from '../db/fixture-types';
 import { createUniverses } from '../db/universes';
-import { fixtureCreate, type FixtureCreate } from '../../schemas/fixture';
-import { projectCreate } from '../../schemas/project';
-import { receiverCreate } from '../../schemas/receiver';
-import { typeCreate } from '../../schemas/type';
-import { universeCreate } from '../../schemas/universe';
-import { PROJECT_FORMAT, PROJECT_FORMAT_VERSION } from '../export/json';
+import type { FixtureCreate } from '../../schemas/fixture';
+import { runJob } from '../workers/pool';
+import type { CheckedBackup } from './json-check';
 import type { ImportIssue } from './gdtf';
 
-// A project backup (export/json.ts) read back into a NEW project. Every part
-// is checked by the schema its API route uses; ids in the file are only
-// references and are mapped to the new rows' ids.
+export type { CheckedBackup } from './json-check';
 
-const withId = z.looseObject({ id: z.int().positive() });
-const envelope = z.looseObject({
-	format: z.literal(PROJECT_FORMAT, { message: `Not a ${PROJECT_FORMAT} file.` }),
-	version: z.literal(PROJECT_FORMAT_VERSION, { message: `Only version ${PROJECT_FORMAT_VERSION} files are read.` }),
-	project: z.looseObject({}),
-	universes: z.array(withId).max(5000).default([]),
-	types: z
-		.array(withId.extend({ modes: z.array(withId).max(64) }))
-		.max(5000)
-		.default([]),
-	receivers: z.array(withId).max(1000).default([]),
-	fixtures: z.array(withId).max(20000).default([])
-});
+// A project backup (export/json.ts) read back into a NEW project. The check (json-check.ts) runs
+// in a worker thread with the pool's budgets; only the writes run here, in one transaction, with
+// the ids in the file mapped to the new rows' ids.
 
-function strip<T extends { id?: unknown }>(o: T): Omit<T, 'id'> {
-	const { id, ...rest } = o;
-	void id;
-	return rest;
+/**
+ * The one check of a backup's bytes, for the restore route and any preview of a restore: decoded,
+ * parsed and validated off the request loop; a job over its time or memory budget answers 422/413.
+ */
+export function checkBackup(bytes: Uint8Array): Promise<CheckedBackup> {
+	return runJob<CheckedBackup>({ kind: 'json-backup', bytes }, 'Checking the project backup');
 }
 
-/** Parses the text; answers 422 with every problem found, writing nothing. */
-export function importProjectJson(userId: string, text: string): Project {
-	let raw: unknown;
-	try {
-		raw = JSON.parse(text);
-	} catch {
-		throw new InvalidError('The file is not valid JSON.', undefined, { code: 'invalid-file' });
-	}
-	const issues: ImportIssue[] = [];
-	const add = (prefix: (string | number)[], err: z.ZodError) => {
-		for (const i of err.issues)
-			issues.push({ row: null, field: [...prefix, ...i.path].map(String).join('.'), message: i.message });
-	};
-	const env = envelope.safeParse(raw);
-	if (!env.success) {
-		add([], env.error);
-		throw new UnprocessableError('The file is not a project export this server reads.', issues, {
-			code: 'invalid-file'
-		});
-	}
-	const file = env.data;
-	const project = projectCreate.safeParse(file.project);
-	if (!project.success) add(['project'], project.error);
-	const universes = file.universes.map((u, i) => {
-		const r = universeCreate.safeParse(strip(u));
-		if (!r.success) add(['universes', i], r.error);
-		return { id: u.id, data: r.data };
-	});
-	const types = file.types.map((t, i) => {
-		const r = typeCreate.safeParse({ ...strip(t), modes: t.modes.map(strip) });
-		if (!r.success) add(['types', i], r.error);
-		return { id: t.id, modeIds: t.modes.map((m) => m.id), data: r.data };
-	});
-	const receivers = file.receivers.map((x, i) => {
-		const r = receiverCreate.safeParse(strip(x));
-		if (!r.success) add(['receivers', i], r.error);
-		return { id: x.id, data: r.data };
-	});
-	const fixtures = file.fixtures.map((f, i) => {
-		const r = fixtureCreate.safeParse(strip(f));
-		if (!r.success) add(['fixtures', i], r.error);
-		return { id: f.id, index: i, data: r.data };
-	});
-	if (issues.length)
-		throw new UnprocessableError(
-			`The file has ${issues.length === 1 ? 'a problem' : `${issues.length} problems`}; nothing was created.`,
-			issues,
-			{ code: 'invalid-file' }
-		);
-
+/** Writes a checked backup as a new project owned by the user; a refused write leaves nothing. */
+export function restoreBackup(userId: string, checked: CheckedBackup): Project {
+	const { universes, types, receivers, fixtures } = checked;
 	return db().transaction(() => {
-		const created = createProject(userId, project.data!);
+		const created = createProject(userId, checked.project);
 		const pid = created.id;
 		const universeMap = new Map<number, number>();
 		const made = createUniverses(

@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, ApiError } from '$lib/server/api';
 import { requireUser } from '$lib/server/authz';
-import { importProjectJson } from '$lib/server/import/json';
-import { decodeText, MAX_UPLOAD_BYTES, sniff } from '$lib/server/import/limits';
+import { checkBackup, restoreBackup } from '$lib/server/import/json';
+import { MAX_UPLOAD_BYTES } from '$lib/server/import/limits';
 import { readCapped, readUpload } from '$lib/server/import/multipart';
 import type { RequestHandler } from './$types';
 
@@ -20,6 +20,6 @@ export const POST: RequestHandler = api(async (event) => {
 			415,
 			'Send the project export as application/json or multipart/form-data with a field named file.'
 		);
-	if (sniff(bytes) !== 'json') throw new ApiError(415, 'The file is not a JSON project export.');
-	return json(importProjectJson(user.id, decodeText(bytes)), { status: 201 });
+	// decoding and checking run in a worker thread with a time and heap budget; only the writes run here
+	return json(restoreBackup(user.id, await checkBackup(bytes)), { status: 201 });
 });
