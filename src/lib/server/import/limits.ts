@@ -160,12 +160,135 @@ function concat(chunks: Uint8Array[]): Uint8Array {
 	return all;
 }
 
-/** Refuses any DTD: no entity expansion (billion laughs) and no external fetch can follow from a file we never parse. */
+/**
+ * Refuses any DTD (no entity expansion — billion laughs — and no external fetch can follow from a
+ * file we never parse), then checks the XML's shape against XML_LIMITS before a parser allocates.
+ */
 export function guardXml(text: string): void {
 	if (/<!DOCTYPE/i.test(text) || /<!ENTITY/i.test(text)) {
 		throw new InvalidError('The XML declares a DOCTYPE or entities; those are refused.', undefined, {
 			code: 'xml-dtd'
 		});
+	}
+	boundXml(text);
+}
+
+/**
+ * What a GDTF description.xml may hold. A fixture type with hundreds of modes and geometries stays
+ * far below each; a parser building objects for more would spend gigabytes (issue 20: two million
+ * attributes took 2.1 GB, one 20 MB attribute 650 MB).
+ */
+export interface XmlLimits {
+	elements: number;
+	depth: number;
+	attributesPerElement: number;
+	attributes: number;
+	attributeLength: number;
+}
+
+export const XML_LIMITS: Readonly<XmlLimits> = {
+	elements: 500_000,
+	depth: 100,
+	attributesPerElement: 256,
+	attributes: 1_000_000,
+	/** characters in one attribute value */
+	attributeLength: 65_536
+};
+
+const n = (x: number) => x.toLocaleString('en-GB');
+
+/**
+ * One pass over the text, allocating nothing per element: counts elements, nesting depth,
+ * attributes (per element and in all) and the length of each attribute value, and refuses at the
+ * first bound crossed. Malformed markup stops the count; the parser then says what is wrong.
+ */
+export function boundXml(text: string, limits: Readonly<XmlLimits> = XML_LIMITS): void {
+	const tooLarge = (code: string, message: string) => new TooLargeError(message, { code });
+	let elements = 0;
+	let attributes = 0;
+	let depth = 0;
+	let i = 0;
+	const len = text.length;
+	const space = (c: number) => c === 0x20 || c === 0x09 || c === 0x0a || c === 0x0d;
+	while (i < len) {
+		const lt = text.indexOf('<', i);
+		if (lt < 0) return;
+		const next = text.charCodeAt(lt + 1);
+		if (next === 0x21 /* ! */) {
+			const [open, close] = text.startsWith('<!--', lt)
+				? ['<!--', '-->']
+				: text.startsWith('<![CDATA[', lt)
+					? ['<![CDATA[', ']]>']
+					: ['<!', '>'];
+			const end = text.indexOf(close, lt + open.length);
+			if (end < 0) return;
+			i = end + close.length;
+			continue;
+		}
+		if (next === 0x3f /* ? */) {
+			const end = text.indexOf('?>', lt + 2);
+			if (end < 0) return;
+			i = end + 2;
+			continue;
+		}
+		if (next === 0x2f /* / */) {
+			depth--;
+			const end = text.indexOf('>', lt + 2);
+			if (end < 0) return;
+			i = end + 1;
+			continue;
+		}
+		if (++elements > limits.elements)
+			throw tooLarge(
+				'xml-elements',
+				`description.xml has more than ${n(limits.elements)} elements; no fixture type needs that many. Refused.`
+			);
+		let j = lt + 1;
+		while (j < len && !space(text.charCodeAt(j)) && text[j] !== '>' && text[j] !== '/') j++;
+		let inElement = 0;
+		for (;;) {
+			while (j < len && space(text.charCodeAt(j))) j++;
+			if (j >= len) return;
+			const c = text[j];
+			if (c === '>') {
+				if (++depth > limits.depth)
+					throw new InvalidError(
+						`description.xml nests elements more than ${limits.depth} deep; no fixture type needs that. Refused.`,
+						undefined,
+						{ code: 'xml-depth' }
+					);
+				i = j + 1;
+				break;
+			}
+			if (c === '/') {
+				i = j + 1;
+				break;
+			}
+			const eq = text.indexOf('=', j);
+			if (eq < 0) return;
+			if (++inElement > limits.attributesPerElement)
+				throw tooLarge(
+					'xml-attributes',
+					`An element of description.xml has more than ${n(limits.attributesPerElement)} attributes; no fixture type needs that many. Refused.`
+				);
+			if (++attributes > limits.attributes)
+				throw tooLarge(
+					'xml-attributes',
+					`description.xml has more than ${n(limits.attributes)} attributes; no fixture type needs that many. Refused.`
+				);
+			j = eq + 1;
+			while (j < len && space(text.charCodeAt(j))) j++;
+			const quote = text[j];
+			if (quote !== '"' && quote !== "'") return;
+			const end = text.indexOf(quote, j + 1);
+			if (end < 0) return;
+			if (end - j - 1 > limits.attributeLength)
+				throw tooLarge(
+					'xml-attribute-length',
+					`An attribute in description.xml is ${n(end - j - 1)} characters long; at most ${n(limits.attributeLength)} are read. Refused.`
+				);
+			j = end + 1;
+		}
 	}
 }
 
