@@ -1,7 +1,7 @@
 import { DuplicateError, UnsupportedTypeError } from '../errors';
 import { createType } from '../db/fixture-types';
 import { listTypes, type TypeShape } from '../db/patch';
-import { importParsedCsv, type CsvSummary, type ParsedCsv } from './csv';
+import type { CsvSummary } from './csv';
 import type { GdtfResult } from './gdtf';
 import { sniff } from './limits';
 import { runJob } from '../workers/pool';
@@ -30,7 +30,7 @@ export function wantsApply(url: URL, fields: Map<string, string>): boolean {
 	return v === 'true' || v === '1';
 }
 
-/** Parsing runs in a worker thread (workers/pool.ts); only the database writes run here. */
+/** Parsing runs in a worker thread (workers/pool.ts); a CSV import's writes run there too, on its own connection. */
 export async function importUpload(
 	projectId: number,
 	userId: string,
@@ -66,14 +66,14 @@ export async function importUpload(
 		return { kind: 'gdtf', applied: apply, dataVersion, warnings, type: created, modes, exists };
 	}
 	if (name.endsWith('.gdtf')) throw new UnsupportedTypeError('This .gdtf file is not a zip archive.');
-	const job = await runJob<{ decoded: { isJson: boolean } | null; parsed: ParsedCsv | null }>(
-		{ kind: 'csv', bytes: upload.bytes },
-		'Reading the CSV file'
+	const job = await runJob<{ decoded: { isJson: boolean } | null; summary?: CsvSummary }>(
+		{ kind: 'csv-import', bytes: upload.bytes, projectId, userId, apply },
+		apply ? 'Importing the CSV file' : 'Reading the CSV file'
 	);
 	if (!job.decoded) throw new UnsupportedTypeError('The file is neither a CSV patch nor a GDTF fixture type.');
-	if (kind === 'json' || job.decoded.isJson || !job.parsed)
+	if (kind === 'json' || job.decoded.isJson || !job.summary)
 		throw new UnsupportedTypeError(
 			'A project backup (.json) is imported as a new project: POST /api/projects/import-json.'
 		);
-	return importParsedCsv(projectId, userId, job.parsed, apply);
+	return job.summary;
 }

@@ -1,7 +1,8 @@
 import { ApiError } from '../api';
 import { DomainError } from '../errors';
-import { parseCsvPatch } from '../import/csv';
+import { importParsedCsv, parseCsvPatch } from '../import/csv';
 import { parseGdtf } from '../import/gdtf';
+import { checkBackupBytes } from '../import/json-check';
 import { decodeSpreadsheet } from '../import/limits';
 import { renderLabelSheet, type LabelOptions } from '../pdf/label-sheet';
 import { renderPatchSheet } from '../pdf/patch-sheet';
@@ -9,12 +10,15 @@ import { renderRadioSheet } from '../pdf/radio-sheet';
 import type { Paper, TitleInfo } from '../pdf/common';
 import type { PatchData } from '../db/patch';
 
-// What runs in the worker threads (pool.ts): the CPU-heavy, I/O-free steps of imports and
-// printed sheets. Plain data in, plain data out; no database here (it stays on the main thread).
+// What runs in the worker threads (pool.ts): the CPU-heavy, I/O-free steps of imports, backup checks and
+// printed sheets. Plain data in, plain data out; only a CSV import opens the database (its own
+// connection, in this thread).
 
 export type Task =
 	| { kind: 'csv'; bytes: Uint8Array }
+	| { kind: 'csv-import'; bytes: Uint8Array; projectId: number; userId: string; apply: boolean }
 	| { kind: 'gdtf'; bytes: Uint8Array }
+	| { kind: 'json-backup'; bytes: Uint8Array }
 	| {
 			kind: 'pdf';
 			sheet: 'patch' | 'labels' | 'radio';
@@ -37,8 +41,24 @@ async function run(task: Task): Promise<unknown> {
 			const isJson = /^\s*\{/.test(decoded.text.slice(0, 64));
 			return { decoded: { encoding: decoded.encoding, isJson }, parsed: isJson ? null : parseCsvPatch(decoded.text) };
 		}
+		case 'csv-import': {
+			// the whole import, writes too, on this thread's own connection to the database file (WAL): a
+			// 20,000-row preview holds SQLite for a second or more, and that second must not be the
+			// request loop's. A preview rolls back; an apply commits and the main thread's patch cache
+			// sees the new data_version.
+			const decoded = decodeSpreadsheet(task.bytes);
+			if (!decoded) return { decoded: null };
+			if (/^\s*\{/.test(decoded.text.slice(0, 64))) return { decoded: { encoding: decoded.encoding, isJson: true } };
+			const parsed = parseCsvPatch(decoded.text);
+			return {
+				decoded: { encoding: decoded.encoding, isJson: false },
+				summary: importParsedCsv(task.projectId, task.userId, parsed, task.apply)
+			};
+		}
 		case 'gdtf':
 			return parseGdtf(task.bytes);
+		case 'json-backup':
+			return checkBackupBytes(task.bytes);
 		case 'pdf': {
 			const pdf =
 				task.sheet === 'patch'
