@@ -1,9 +1,10 @@
 import { eq, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeCrew, signInCrew } from '../helpers/factories';
+import { gdtfZip, PANEL_XML } from '../helpers/gdtf';
 import { channels, makeType } from '../helpers/patch-factories';
 import { startServer, type TestServer } from '../helpers/server';
-import { fixtures, universes } from '../../src/lib/server/db/schema';
+import { fixtures, projects, universes } from '../../src/lib/server/db/schema';
 
 // Issue 20: imports run in linear time and never stall the server; the CSV cap is 20,000 rows.
 
@@ -30,6 +31,16 @@ function bigCsv(count: number, firstNumber = 1): string {
 			`${firstNumber + i},Testworks,Bulk Par,Single,${Math.floor(i / perUniverse) + 1},${(i % perUniverse) + 1}`
 		);
 	return lines.join('\r\n');
+}
+
+/** A project backup (export/json.ts format) holding `count` universes numbered 1…count. */
+function backup(count: number, name: string) {
+	return {
+		format: 'patchwright-project',
+		version: 1,
+		project: { name },
+		universes: Array.from({ length: count }, (_, i) => ({ id: i + 1, number: i + 1, name: `L${i + 1}` }))
+	};
 }
 
 function importForm(csv: string) {
@@ -92,14 +103,10 @@ describe('large imports', () => {
 		expect((await res.json()).error.message).toContain('at most 20000');
 	});
 
-	it('restores a JSON backup with 2,000 universes', async () => {
-		const body = {
-			format: 'patchwright-project',
-			version: 1,
-			project: { name: 'Two thousand lines' },
-			universes: Array.from({ length: 2000 }, (_, i) => ({ id: i + 1, number: i + 1, name: `L${i + 1}` }))
-		};
-		const res = await as.programmer.post('/api/projects/import-json', body);
+	it('restores a JSON backup with 2,000 universes; health answers meanwhile', async () => {
+		const restoring = as.programmer.post('/api/projects/import-json', backup(2000, 'Two thousand lines'));
+		expect((await server.anonymous().get('/api/health')).status).toBe(200);
+		const res = await restoring;
 		expect(res.status).toBe(201);
 		const id = (await res.json()).id;
 		const list = await (await as.programmer.get(`/api/projects/${id}/universes`)).json();
@@ -138,6 +145,36 @@ describe('large imports', () => {
 	});
 });
 
+describe('GDTF files refused at the XML stage', () => {
+	const send = (xml: string) => {
+		const form = new FormData();
+		form.set('file', new Blob([new Uint8Array(gdtfZip(xml))]), 'huge.gdtf');
+		return as.programmer.fetch(`/api/projects/${pid}/import`, { method: 'POST', body: form });
+	};
+
+	it('a fixture type with two million attributes: 413 with a sentence, health answers meanwhile', async () => {
+		const attrs: string[] = [];
+		for (let i = 0; i < 2_000_000; i++) attrs.push(`a${i}=""`);
+		const sending = send(PANEL_XML.replace('<FixtureType ', `<FixtureType ${attrs.join(' ')} `));
+		expect((await server.anonymous().get('/api/health')).status).toBe(200);
+		const res = await sending;
+		expect(res.status).toBe(413);
+		const body = await res.json();
+		expect(body.error.code).toBe('xml-attributes');
+		expect(body.error.message).toMatch(/^An element of description\.xml has more than 256 attributes/);
+	});
+
+	it('one 20 MB attribute: 413 naming its length', async () => {
+		const res = await send(
+			PANEL_XML.replace('Description="An invented soft panel."', `Description="${'x'.repeat(20 * 1024 * 1024)}"`)
+		);
+		expect(res.status).toBe(413);
+		const body = await res.json();
+		expect(body.error.code).toBe('xml-attribute-length');
+		expect(body.error.message).toContain('20,971,520 characters long');
+	});
+});
+
 describe('a job over its budget', () => {
 	let slow: TestServer;
 	let programmer: Awaited<ReturnType<typeof signInCrew>>['programmer'];
@@ -161,5 +198,23 @@ describe('a job over its budget', () => {
 		expect((await slow.anonymous().get('/api/health')).status).toBe(200);
 		const sheet = await programmer.get(`/api/projects/${project}/sheets/patch.pdf`);
 		expect(sheet.status).toBe(422);
+	});
+
+	it('stops a JSON backup check over budget: 422 as JSON, no project made, health still answers', async () => {
+		const count = () =>
+			slow
+				.db()
+				.select({ n: sql<number>`count(*)` })
+				.from(projects)
+				.get()!.n;
+		const before = count();
+		const res = await programmer.post('/api/projects/import-json', backup(2000, 'Over budget'));
+		expect(res.status).toBe(422);
+		expect(res.headers.get('content-type')).toContain('application/json');
+		const body = await res.json();
+		expect(body.error.code).toBe('too-slow');
+		expect(body.error.message).toContain('nothing was written');
+		expect(count()).toBe(before);
+		expect((await slow.anonymous().get('/api/health')).status).toBe(200);
 	});
 });
