@@ -1,4 +1,5 @@
 import { loadPatchCached, type PatchData } from './db/patch';
+import { RateLimitedError } from './errors';
 
 // Live updates (server-sent events, WHATWG HTML "Server-sent events"): after each committed
 // write a route calls publish(); every open table and universe map of that project gets the
@@ -57,4 +58,37 @@ export function publish(
 		refetch: change.refetch ?? false
 	};
 	for (const fn of set) fn(event);
+}
+
+// Each open feed holds a socket, a listener and a timer for as long as its page stays open, so
+// they are counted: per person (several tabs and phones are normal; hundreds are a script) and in all.
+export const LIVE_PER_USER = Number(process.env.PATCHWRIGHT_LIVE_PER_USER || 16);
+export const LIVE_TOTAL = Number(process.env.PATCHWRIGHT_LIVE_TOTAL || 1000);
+const openByUser = new Map<string, number>();
+let openTotal = 0;
+
+/** Counts one open feed, or refuses it (429) past either bound; the answer releases it (once). */
+export function openFeed(userId: string): () => void {
+	const mine = openByUser.get(userId) ?? 0;
+	if (mine >= LIVE_PER_USER)
+		throw new RateLimitedError(
+			`You already have ${mine} live pages open; close a few tabs or windows of Patchwright and reload this one.`,
+			30
+		);
+	if (openTotal >= LIVE_TOTAL)
+		throw new RateLimitedError(
+			`The server is keeping ${openTotal} live pages up to date, as many as it takes; reload in a minute.`,
+			60
+		);
+	openByUser.set(userId, mine + 1);
+	openTotal++;
+	let open = true;
+	return () => {
+		if (!open) return;
+		open = false;
+		openTotal--;
+		const left = (openByUser.get(userId) ?? 1) - 1;
+		if (left > 0) openByUser.set(userId, left);
+		else openByUser.delete(userId);
+	};
 }

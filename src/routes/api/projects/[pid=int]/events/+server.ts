@@ -1,14 +1,17 @@
 import { api } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
-import { LIVE_EPOCH, liveCounter, subscribe } from '$lib/server/live';
+import { LIVE_EPOCH, liveCounter, openFeed, subscribe } from '$lib/server/live';
 import type { RequestHandler } from './$types';
 
 // The project's live feed as server-sent events: a `hello` with the current counter, then one
 // `change` per committed write. A comment every 20 s keeps proxies from closing the stream.
 // `?once=1` answers the hello and closes: the counter alone, for a script or a check.
+// Open feeds are bounded per person and in all (live.ts openFeed): extras answer 429.
 export const GET: RequestHandler = api((event) => {
-	const { projectId } = requireRole(event, event.params.pid, 'viewer');
+	const { projectId, user } = requireRole(event, event.params.pid, 'viewer');
 	const once = event.url.searchParams.get('once') === '1';
+	// counted before the stream starts, so a refusal is an ordinary JSON 429
+	const release = once ? () => {} : openFeed(user.id);
 	const encoder = new TextEncoder();
 	let stop = () => {};
 	const stream = new ReadableStream<Uint8Array>({
@@ -27,6 +30,7 @@ export const GET: RequestHandler = api((event) => {
 			stop = () => {
 				off();
 				clearInterval(beat);
+				release();
 			};
 			event.request.signal.addEventListener('abort', () => {
 				stop();
