@@ -57,70 +57,106 @@ export function feedTargets(projectId: number): { packTypes: Set<number>; circui
 	return { packTypes: new Set(p.map((r) => r.id)), circuits: new Set(c.map((r) => r.id)) };
 }
 
-// ── Pack types ─────────────────────────────────────────────────────────────
+// ── Pack types and circuits: one CRUD for both ──────────────────────────────
+// The two are what a fixture's feed names: listed by name, read, created, version-checked updates,
+// deletes refused while a fixture is fed by them (or detached to feed none), every write audited.
 
-export function listPackTypes(projectId: number): PackTypeShape[] {
-	return db()
-		.select()
-		.from(packTypes)
-		.where(eq(packTypes.projectId, projectId))
-		.orderBy(asc(packTypes.name), asc(packTypes.id))
-		.all()
-		.map(packTypeShape);
+type FeedTable = typeof packTypes | typeof circuits;
+
+interface FeedSource<Row, Shape extends { version: number; name: string }, Create, Patch> {
+	table: FeedTable;
+	shape: (r: Row) => Shape;
+	/** audit action prefix and entity name */
+	action: 'pack-type' | 'circuit';
+	entity: 'pack_type' | 'circuit';
+	/** "pack type" → "No such pack type in this project.", `Pack type "Brick"` */
+	noun: string;
+	feedColumn: typeof fixtures.packTypeId | typeof fixtures.circuitId;
+	insertValues?: (input: Create) => Record<string, unknown>;
+	/** rules of this kind an update must keep (fields may be adjusted); `before` is the row as read */
+	beforeUpdate?: (before: Shape, fields: Omit<Patch, 'version'>) => void;
 }
 
-function packRow(projectId: number, id: number): PackTypeRow {
-	const row = db()
-		.select()
-		.from(packTypes)
-		.where(and(eq(packTypes.id, id), eq(packTypes.projectId, projectId)))
-		.get();
-	if (!row) throw new NotFoundError('No such pack type in this project.');
-	return row;
-}
-
-export function getPackType(projectId: number, id: number): PackTypeShape {
-	return packTypeShape(packRow(projectId, id));
-}
-
-export function createPackType(projectId: number, userId: string, input: PackTypeCreate): PackTypeShape {
-	return db().transaction(() => {
-		const row = db()
-			.insert(packTypes)
-			.values({ projectId, ...input, ampHours: input.ampHours ?? null, wattHours: input.wattHours ?? null })
-			.returning()
+function feedSource<Row, Shape extends { version: number; name: string }, Create, Patch extends { version: number }>(
+	src: FeedSource<Row, Shape, Create, Patch>
+) {
+	// both tables carry id, project_id, name, version and updated_at: queries name those alone, so
+	// one table type stands for both in the query builder
+	const t = src.table as typeof packTypes;
+	const Noun = src.noun[0].toUpperCase() + src.noun.slice(1);
+	const row = (projectId: number, id: number): Row => {
+		const r = db()
+			.select()
+			.from(t)
+			.where(and(eq(t.id, id), eq(t.projectId, projectId)))
 			.get();
-		const after = packTypeShape(row);
-		recordAudit({ projectId, userId, action: 'pack-type.create', entity: 'pack_type', entityId: row.id, after });
-		return after;
-	});
-}
-
-export function updatePackType(projectId: number, userId: string, id: number, patch: PackTypePatch): PackTypeShape {
-	return db().transaction(() => {
-		const before = packTypeShape(packRow(projectId, id));
-		const { version, ...fields } = patch;
-		if (before.version !== version) throw new StaleVersionError(before);
-		// giving one capacity replaces the other: one derives from the other
-		if (fields.ampHours != null && fields.wattHours === undefined) fields.wattHours = null;
-		if (fields.wattHours != null && fields.ampHours === undefined) fields.ampHours = null;
-		const ah = fields.ampHours !== undefined ? fields.ampHours : before.ampHours;
-		const wh = fields.wattHours !== undefined ? fields.wattHours : before.wattHours;
-		if (ah == null && wh == null)
-			throw new InvalidError('Give the capacity in Ah or in Wh.', [
-				{ path: ['ampHours'], message: 'Give the capacity in Ah or in Wh.' }
-			]);
-		const row = db()
-			.update(packTypes)
-			.set({ ...fields, version: sql`${packTypes.version} + 1`, updatedAt: new Date() })
-			.where(and(eq(packTypes.id, id), eq(packTypes.version, version)))
-			.returning()
-			.get();
-		if (!row) throw new StaleVersionError(getPackType(projectId, id));
-		const after = packTypeShape(row);
-		recordAudit({ projectId, userId, action: 'pack-type.update', entity: 'pack_type', entityId: id, before, after });
-		return after;
-	});
+		if (!r) throw new NotFoundError(`No such ${src.noun} in this project.`);
+		return r as Row;
+	};
+	const get = (projectId: number, id: number): Shape => src.shape(row(projectId, id));
+	return {
+		list: (projectId: number): Shape[] =>
+			db()
+				.select()
+				.from(t)
+				.where(eq(t.projectId, projectId))
+				.orderBy(asc(t.name), asc(t.id))
+				.all()
+				.map((r) => src.shape(r as Row)),
+		get,
+		create: (projectId: number, userId: string, input: Create): Shape =>
+			db().transaction(() => {
+				const values = {
+					projectId,
+					...input,
+					...src.insertValues?.(input)
+				} as unknown as typeof packTypes.$inferInsert;
+				const created = db().insert(t).values(values).returning().get();
+				const after = src.shape(created as Row);
+				recordAudit({
+					projectId,
+					userId,
+					action: `${src.action}.create`,
+					entity: src.entity,
+					entityId: created.id,
+					after
+				});
+				return after;
+			}),
+		update: (projectId: number, userId: string, id: number, patch: Patch): Shape =>
+			db().transaction(() => {
+				const before = get(projectId, id);
+				const { version, ...fields } = patch;
+				if (before.version !== version) throw new StaleVersionError(before);
+				src.beforeUpdate?.(before, fields);
+				const updated = db()
+					.update(t)
+					.set({ ...fields, version: sql`${t.version} + 1`, updatedAt: new Date() })
+					.where(and(eq(t.id, id), eq(t.version, version)))
+					.returning()
+					.get();
+				if (!updated) throw new StaleVersionError(get(projectId, id));
+				const after = src.shape(updated as Row);
+				recordAudit({
+					projectId,
+					userId,
+					action: `${src.action}.update`,
+					entity: src.entity,
+					entityId: id,
+					before,
+					after
+				});
+				return after;
+			}),
+		remove: (projectId: number, userId: string, id: number, o: { detach: boolean; version: number | null }): void =>
+			db().transaction(() => {
+				const before = get(projectId, id);
+				if (o.version !== null && before.version !== o.version) throw new StaleVersionError(before);
+				unfeed(projectId, userId, src.feedColumn, id, `${Noun} "${before.name}"`, o.detach);
+				db().delete(t).where(eq(t.id, id)).run();
+				recordAudit({ projectId, userId, action: `${src.action}.delete`, entity: src.entity, entityId: id, before });
+			})
+	};
 }
 
 function fedBy(projectId: number, column: typeof fixtures.packTypeId | typeof fixtures.circuitId, id: number) {
@@ -175,96 +211,47 @@ function unfeed(
 		});
 }
 
-function checkVersion(before: { version: number }, version: number | null) {
-	if (version !== null && before.version !== version) throw new StaleVersionError(before);
-}
+const packs = feedSource<PackTypeRow, PackTypeShape, PackTypeCreate, PackTypePatch>({
+	table: packTypes,
+	shape: packTypeShape,
+	action: 'pack-type',
+	entity: 'pack_type',
+	noun: 'pack type',
+	feedColumn: fixtures.packTypeId,
+	insertValues: (input) => ({ ampHours: input.ampHours ?? null, wattHours: input.wattHours ?? null }),
+	beforeUpdate(before, fields) {
+		// giving one capacity replaces the other: one derives from the other
+		if (fields.ampHours != null && fields.wattHours === undefined) fields.wattHours = null;
+		if (fields.wattHours != null && fields.ampHours === undefined) fields.ampHours = null;
+		const ah = fields.ampHours !== undefined ? fields.ampHours : before.ampHours;
+		const wh = fields.wattHours !== undefined ? fields.wattHours : before.wattHours;
+		if (ah == null && wh == null)
+			throw new InvalidError('Give the capacity in Ah or in Wh.', [
+				{ path: ['ampHours'], message: 'Give the capacity in Ah or in Wh.' }
+			]);
+	}
+});
 
-export function deletePackType(
-	projectId: number,
-	userId: string,
-	id: number,
-	o: { detach: boolean; version: number | null }
-): void {
-	db().transaction(() => {
-		const before = packTypeShape(packRow(projectId, id));
-		checkVersion(before, o.version);
-		unfeed(projectId, userId, fixtures.packTypeId, id, `Pack type "${before.name}"`, o.detach);
-		db().delete(packTypes).where(eq(packTypes.id, id)).run();
-		recordAudit({ projectId, userId, action: 'pack-type.delete', entity: 'pack_type', entityId: id, before });
-	});
-}
+const circuitSource = feedSource<CircuitRow, CircuitShape, CircuitCreate, CircuitPatch>({
+	table: circuits,
+	shape: circuitShape,
+	action: 'circuit',
+	entity: 'circuit',
+	noun: 'circuit',
+	feedColumn: fixtures.circuitId
+});
 
-// ── Circuits ───────────────────────────────────────────────────────────────
+export const listPackTypes = packs.list;
+export const getPackType = packs.get;
+export const createPackType = packs.create;
+export const updatePackType = packs.update;
+export const deletePackType = packs.remove;
 
-export function listCircuits(projectId: number): CircuitShape[] {
-	return db()
-		.select()
-		.from(circuits)
-		.where(eq(circuits.projectId, projectId))
-		.orderBy(asc(circuits.name), asc(circuits.id))
-		.all()
-		.map(circuitShape);
-}
-
-function circuitRow(projectId: number, id: number): CircuitRow {
-	const row = db()
-		.select()
-		.from(circuits)
-		.where(and(eq(circuits.id, id), eq(circuits.projectId, projectId)))
-		.get();
-	if (!row) throw new NotFoundError('No such circuit in this project.');
-	return row;
-}
-
-export function getCircuit(projectId: number, id: number): CircuitShape {
-	return circuitShape(circuitRow(projectId, id));
-}
-
-export function createCircuit(projectId: number, userId: string, input: CircuitCreate): CircuitShape {
-	return db().transaction(() => {
-		const row = db()
-			.insert(circuits)
-			.values({ projectId, ...input })
-			.returning()
-			.get();
-		const after = circuitShape(row);
-		recordAudit({ projectId, userId, action: 'circuit.create', entity: 'circuit', entityId: row.id, after });
-		return after;
-	});
-}
-
-export function updateCircuit(projectId: number, userId: string, id: number, patch: CircuitPatch): CircuitShape {
-	return db().transaction(() => {
-		const before = circuitShape(circuitRow(projectId, id));
-		const { version, ...fields } = patch;
-		if (before.version !== version) throw new StaleVersionError(before);
-		const row = db()
-			.update(circuits)
-			.set({ ...fields, version: sql`${circuits.version} + 1`, updatedAt: new Date() })
-			.where(and(eq(circuits.id, id), eq(circuits.version, version)))
-			.returning()
-			.get();
-		if (!row) throw new StaleVersionError(getCircuit(projectId, id));
-		const after = circuitShape(row);
-		recordAudit({ projectId, userId, action: 'circuit.update', entity: 'circuit', entityId: id, before, after });
-		return after;
-	});
-}
-
-export function deleteCircuit(
-	projectId: number,
-	userId: string,
-	id: number,
-	o: { detach: boolean; version: number | null }
-): void {
-	db().transaction(() => {
-		const before = circuitShape(circuitRow(projectId, id));
-		checkVersion(before, o.version);
-		unfeed(projectId, userId, fixtures.circuitId, id, `Circuit "${before.name}"`, o.detach);
-		db().delete(circuits).where(eq(circuits.id, id)).run();
-		recordAudit({ projectId, userId, action: 'circuit.delete', entity: 'circuit', entityId: id, before });
-	});
-}
+export const listCircuits = circuitSource.list;
+export const getCircuit = circuitSource.get;
+export const createCircuit = circuitSource.create;
+export const updateCircuit = circuitSource.update;
+export const deleteCircuit = circuitSource.remove;
 
 // ── Settings and figures ───────────────────────────────────────────────────
 
