@@ -8,7 +8,7 @@ import { demoStage } from './launch';
 
 const stage = demoStage();
 
-async function theme(page: Page, value: 'light' | 'dark') {
+async function theme(page: Page, value: 'light' | 'dark' | 'dim') {
 	await page.context().addCookies([{ name: 'pw-theme', value, url: stage.server.url }]);
 }
 
@@ -52,8 +52,24 @@ describe('power page', () => {
 		await phone.getByText('Fixture 144 goes dark at 16:00').waitFor();
 		expect(await phone.locator('form[action="?/setFeed"]').count()).toBe(0);
 		await screenshot(phone, 'power-phone-light');
+		// one part at a time on a phone: the rotation first, the others a tap away
+		const parts = phone.getByRole('navigation', { name: 'Parts of the power plan' });
+		expect(await phone.locator('#packs').isVisible()).toBe(false);
+		await parts.getByRole('button', { name: /^Packs/ }).click();
+		expect(await phone.locator('#packs').isVisible()).toBe(true);
+		expect(await phone.locator('#rotation').isVisible()).toBe(false);
+		await screenshot(phone, 'power-phone-packs-light');
 		await theme(phone, 'dark');
 		await phone.reload();
 		await screenshot(phone, 'power-phone-dark');
+		// the night theme on set, circuits open
+		await theme(phone, 'dim');
+		await phone.reload();
+		await parts.getByRole('button', { name: /^Circuits/ }).click();
+		await phone.locator('#circuits').waitFor();
+		await screenshot(phone, 'power-phone-circuits-night');
+		// on the desk every part shows and the switcher is hidden
+		expect(await page.locator('#packs').isVisible()).toBe(true);
+		expect(await page.getByRole('navigation', { name: 'Parts of the power plan' }).isVisible()).toBe(false);
 	});
 });
