@@ -14,7 +14,11 @@ const UNIVERSES = 50;
 const PER_UNIVERSE = ROWS / UNIVERSES;
 
 /** Row i: fixture i+1 of a one-slot type, 100 to a universe (ANSI E1.11: slots 1–512). */
-const row = (i: number) => ({ number: i + 1, universe: Math.floor(i / PER_UNIVERSE) + 1, address: (i % PER_UNIVERSE) + 1 });
+const row = (i: number) => ({
+	number: i + 1,
+	universe: Math.floor(i / PER_UNIVERSE) + 1,
+	address: (i % PER_UNIVERSE) + 1
+});
 
 export function csv5k(): string {
 	const lines = ['Number,Label,Maker,Model,Mode,Universe,Address'];
