@@ -53,6 +53,15 @@ export class ApiError extends Error {
 	}
 }
 
+/** better-sqlite3's error code, also when the ORM wrapped the error (its `cause`). */
+/** Another connection (a large import in a worker thread) held SQLite's write lock. */
+export const BUSY_MESSAGE = 'The database is busy with a large write; nothing was changed. Try again in a few seconds.';
+
+export function sqliteCode(err: unknown): unknown {
+	const e = err as { code?: unknown; cause?: { code?: unknown } } | null;
+	return e?.code ?? e?.cause?.code;
+}
+
 export function zodIssues(err: ZodError): ApiIssue[] {
 	return err.issues.map((i) => ({
 		path: i.path.filter((p): p is string | number => typeof p !== 'symbol'),
@@ -105,6 +114,12 @@ export function api<E extends RequestEvent>(
 				return apiError(400, 'The request is not valid.', { issues: zodIssues(err) });
 			}
 			if (isRedirect(err)) throw err;
+			// another connection (a large import in a worker thread) held the write lock past busy_timeout
+			if (sqliteCode(err) === 'SQLITE_BUSY')
+				return apiError(503, BUSY_MESSAGE, {
+					code: 'busy',
+					retryAfter: 5
+				});
 			throw err;
 		}
 	};

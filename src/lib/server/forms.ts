@@ -1,7 +1,7 @@
 import { error, fail, isHttpError, isRedirect, type ActionFailure, type RequestEvent } from '@sveltejs/kit';
 import { z, ZodError } from 'zod';
 import type { FormFailure } from '../forms';
-import { zodIssues } from './api';
+import { BUSY_MESSAGE, sqliteCode, zodIssues } from './api';
 import { DomainError, InvalidError, type Issue } from './errors';
 
 // The one form pattern (DEVELOPERS.md "Forms"): a named action wrapped in `action()` reads the form
@@ -55,6 +55,8 @@ export function action<E extends RequestEvent, R>(
 			if (err instanceof ZodError) {
 				return fail(400, { message: 'Some fields need fixing.', issues: zodIssues(err), values, action: name });
 			}
+			if (sqliteCode(err) === 'SQLITE_BUSY')
+				return fail(503, { message: BUSY_MESSAGE, issues: [], values, action: name });
 			throw err;
 		}
 	};
