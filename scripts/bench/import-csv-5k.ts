@@ -83,7 +83,7 @@ async function run(server: TestServer) {
 				const { pid, type } = freshProject();
 				insertAll(pid, type.type.id, type.modeIds.Single);
 			},
-			{ runs: 5, warmup: 1 }
+			{ runs: 5, warmup: 3 }
 		);
 		console.error(
 			`import-csv-5k: preview + apply over HTTP ${r.subject.toFixed(0)} ms, raw prepared inserts ${r.baseline.toFixed(1)} ms`
