@@ -207,4 +207,28 @@ describe('DMX breaks through import, fixtures and the patch', () => {
 		expect(stray.status).toBe(400);
 		expect((await stray.json()).error.issues[0].path).toEqual(['breakUniverses', 0, 'universeId']);
 	});
+
+	it("a universe used only by a fixture's break 2 is in use: delete names the fixture; detach sets it to manual", async () => {
+		const u5 = (await (await as.programmer.post(`${base()}/universes`, { number: 5 })).json()).id;
+		const made = await as.programmer.post(`${base()}/fixtures`, {
+			number: 30,
+			label: 'Split far',
+			typeId,
+			modeId,
+			control: { kind: 'dmx', universeId: u1, address: 200, breaks: [{ dmxBreak: 2, universeId: u5, address: 1 }] }
+		});
+		expect(made.status).toBe(201);
+		const id = (await made.json()).id;
+		const refused = await as.programmer.fetch(`${base()}/universes/${u5}`, { method: 'DELETE' });
+		expect(refused.status).toBe(409);
+		const body = await refused.json();
+		expect(body.error.message).toContain('fixture 30');
+		expect(body.usedBy).toEqual([{ id, number: 30, label: 'Split far' }]);
+		const detached = await as.programmer.fetch(`${base()}/universes/${u5}?detach=true`, { method: 'DELETE' });
+		expect(detached.status).toBe(204);
+		const after = (await (await as.viewer.get(`${base()}/fixtures`)).json()).fixtures.find(
+			(f: { id: number }) => f.id === id
+		);
+		expect(after.control).toEqual({ kind: 'manual' });
+	});
 });
