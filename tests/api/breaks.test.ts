@@ -231,4 +231,26 @@ describe('DMX breaks through import, fixtures and the patch', () => {
 		);
 		expect(after.control).toEqual({ kind: 'manual' });
 	});
+
+	it('refuses an address per parameter for a mode over two breaks, in a sentence saying what to do instead', async () => {
+		const res = await as.programmer.post(`${base()}/fixtures`, {
+			number: 40,
+			typeId,
+			modeId,
+			control: { kind: 'dmx-map', universeId: u1, addresses: { intensity: 300, red: 305, green: 310 } }
+		});
+		expect(res.status).toBe(400);
+		const { error } = await res.json();
+		expect(error.issues).toEqual([
+			{
+				path: ['control', 'kind'],
+				message:
+					'Mode "Split" spans DMX breaks 1 and 2; an address per parameter covers one universe only, so give this fixture a start address per break instead.'
+			}
+		]);
+		const numbers = (await (await as.viewer.get(`${base()}/fixtures`)).json()).fixtures.map(
+			(f: { number: number }) => f.number
+		);
+		expect(numbers).not.toContain(40);
+	});
 });

@@ -3,6 +3,7 @@ import {
 	autoAddressBreaks,
 	breakFootprints,
 	defaultChannelCount,
+	modeBreaks,
 	modeSlotCount,
 	resolveDmx,
 	resolveDmxMap,
@@ -123,6 +124,15 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 		case 'dmx-map': {
 			if (!ctx.universes.has(c.universeId)) at(['control', 'universeId'], 'No such universe in this project.');
 			if (!mode) break;
+			// DIN SPEC 15800 DMX mode: each break is its own DMX line; one map in one universe cannot say where the others land
+			const spans = modeBreaks(mode.mode);
+			if (spans.length > 1) {
+				at(
+					['control', 'kind'],
+					`Mode "${mode.mode.name}" spans DMX breaks ${spans.slice(0, -1).join(', ')} and ${spans[spans.length - 1]}; an address per parameter covers one universe only, so give this fixture a start address per break instead.`
+				);
+				break;
+			}
 			const slotted = new Set(mode.mode.channels.filter((ch) => ch.offset !== null).map((ch) => ch.parameter));
 			for (const key of Object.keys(c.addresses)) {
 				if (!slotted.has(key))
