@@ -253,4 +253,62 @@ describe('DMX breaks through import, fixtures and the patch', () => {
 		);
 		expect(numbers).not.toContain(40);
 	});
+
+	it('the fixture page saves a start address per break through the same checks as the API; refusals write nothing', async () => {
+		const list = (await (await as.viewer.get(`${base()}/fixtures`)).json()).fixtures;
+		const one = list.find((f: { number: number }) => f.number === 1);
+		const post = (who: typeof as.programmer, fields: Record<string, string>) =>
+			who.fetch(`/projects/${pid}/fixtures/1?/addresses`, {
+				method: 'POST',
+				headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-sveltekit-action': 'true' },
+				body: new URLSearchParams({ id: String(one.id), version: String(one.version), ...fields }).toString()
+			});
+		const current = () =>
+			as.viewer
+				.get(`${base()}/fixtures/${one.id}`)
+				.then((r) => r.json() as Promise<{ control: unknown; version: number }>);
+
+		const past = await post(as.programmer, {
+			'universe-1': String(u1),
+			'address-1': '50',
+			'universe-2': String(u2),
+			'address-2': '510'
+		});
+		const pastBody = await past.text();
+		expect(pastBody).toContain('"type":"failure"');
+		expect(pastBody).toContain(
+			'This mode needs 4 slots; from address 510 it would run to slot 513, past 512. Start at 509 or lower.'
+		);
+		const blank = await (
+			await post(as.programmer, { 'universe-1': String(u1), 'address-1': '50', 'universe-2': '', 'address-2': 'ten' })
+		).text();
+		expect(blank).toContain('Choose a universe for break 2.');
+		expect(blank).toMatch(/ten\W{0,6} is not an address; write a number from 1 to 512\./);
+		expect((await current()).control).toEqual(one.control);
+
+		const electrician = await post(as.electrician, {
+			'universe-1': String(u1),
+			'address-1': '50',
+			'universe-2': String(u2),
+			'address-2': '200'
+		});
+		expect(electrician.status).toBe(403);
+		expect((await current()).control).toEqual(one.control);
+
+		const ok = await post(as.programmer, {
+			'universe-1': String(u1),
+			'address-1': '50',
+			'universe-2': String(u2),
+			'address-2': '200'
+		});
+		expect(await ok.text()).toContain('"type":"success"');
+		const after = await current();
+		expect(after.control).toEqual({
+			kind: 'dmx',
+			universeId: u1,
+			address: 50,
+			breaks: [{ dmxBreak: 2, universeId: u2, address: 200 }]
+		});
+		expect(after.version).toBe(one.version + 1);
+	});
 });
