@@ -90,17 +90,29 @@ class FreeRuns {
 		this.largest = m;
 	}
 
-	/** First aligned address with `slots` free slots, reserving them plus the gap; null if none. */
-	take(slots: number, align: number, gap: number): number | null {
+	/** Copy of the runs, so a fixture placed break by break can be taken back whole. */
+	save(): { starts: number[]; ends: number[]; largest: number } {
+		return { starts: [...this.starts], ends: [...this.ends], largest: this.largest };
+	}
+
+	restore(saved: { starts: number[]; ends: number[]; largest: number }): void {
+		this.starts = [...saved.starts];
+		this.ends = [...saved.ends];
+		this.largest = saved.largest;
+	}
+
+	/** First aligned address at or above `from` with `slots` free slots, reserving them plus the gap; null if none. */
+	take(slots: number, align: number, gap: number, from = 1): number | null {
 		if (slots > this.largest) return null;
 		for (let i = 0; i < this.starts.length; i++) {
-			const s = this.starts[i];
 			const e = this.ends[i];
+			if (e < from) continue;
+			const s = Math.max(this.starts[i], from);
 			const a = s + ((align - ((s - 1) % align)) % align);
 			if (a + slots - 1 > e) continue;
 			const reservedEnd = Math.min(a + slots - 1 + gap, e);
 			const pieces: [number, number][] = [];
-			if (a > s) pieces.push([s, a - 1]);
+			if (a > this.starts[i]) pieces.push([this.starts[i], a - 1]);
 			if (reservedEnd < e) pieces.push([reservedEnd + 1, e]);
 			this.starts.splice(i, 1, ...pieces.map((p) => p[0]));
 			this.ends.splice(i, 1, ...pieces.map((p) => p[1]));
@@ -208,6 +220,100 @@ export function autoAddressAcross(input: AutoAddressAcrossInput): AutoAddressAcr
 			bad ??
 			`${needs(f.slots)}; no free run of ${f.slots}${align > 1 ? ` on an address ≡ 1 (mod ${align})` : ''} in ${where}`;
 		result.unplaced.push({ fixtureId: f.id, reason });
+	}
+	return result;
+}
+
+export interface BreakFixture extends AutoAddressFixture {
+	/** Footprints of DMX breaks 2…n of a multi-break mode (DIN SPEC 15800 DMX mode); absent for one break. */
+	breaks?: readonly { dmxBreak: number; slots: number }[];
+}
+
+export interface AutoAddressBreaksInput extends AutoAddressOptions {
+	fixtures: readonly BreakFixture[];
+	/** Universe of break 1. */
+	universeId: number;
+	/** Universe of each further break; a break not listed follows on in break 1's universe. */
+	breakUniverses?: Readonly<Record<number, number>>;
+	/** What is already patched on each universe involved (fixtures being placed excluded). */
+	occupied?: ReadonlyMap<number, readonly Occupied[]>;
+	/** How reasons name a universe ("universe 3"). */
+	labels?: ReadonlyMap<number, string>;
+}
+
+export interface PlacedBreak {
+	dmxBreak: number;
+	universeId: number;
+	address: number;
+}
+
+export interface AutoAddressBreaksResult {
+	placed: { fixtureId: number; address: number; breaks?: PlacedBreak[] }[];
+	unplaced: Unplaced[];
+}
+
+/**
+ * First fit for fixtures whose mode spans several DMX breaks: break 1 into the chosen universe as
+ * `autoAddress` does, then each further break into its own universe (or following on after the
+ * previous break when it shares break 1's). A fixture is placed whole or not at all. `start`
+ * applies to break 1's universe; another universe is filled from 1.
+ */
+export function autoAddressBreaks(input: AutoAddressBreaksInput): AutoAddressBreaksResult {
+	const o = checkOptions(input);
+	const pools = new Map<number, FreeRuns>();
+	const pool = (u: number) => {
+		let p = pools.get(u);
+		if (p === undefined) {
+			p = new FreeRuns(input.occupied?.get(u) ?? [], u === input.universeId ? o.start : 1);
+			pools.set(u, p);
+		}
+		return p;
+	};
+	const label = (u: number) => input.labels?.get(u) ?? 'the universe';
+	const result: AutoAddressBreaksResult = { placed: [], unplaced: [] };
+	for (const f of [...input.fixtures].sort(byNumber)) {
+		const bad = badFootprint(f);
+		if (bad !== null) {
+			result.unplaced.push({ fixtureId: f.id, reason: bad });
+			continue;
+		}
+		const first = pool(input.universeId);
+		const more = [...(f.breaks ?? [])].filter((b) => b.slots > 0).sort((a, b) => a.dmxBreak - b.dmxBreak);
+		const saved = new Map<number, ReturnType<FreeRuns['save']>>();
+		for (const u of [input.universeId, ...more.map((b) => input.breakUniverses?.[b.dmxBreak] ?? input.universeId)])
+			if (!saved.has(u)) saved.set(u, pool(u).save());
+		const address = first.take(f.slots, o.align, o.gap);
+		if (address === null) {
+			result.unplaced.push({ fixtureId: f.id, reason: noRun(f.slots, o, label(input.universeId)) });
+			continue;
+		}
+		const placed: PlacedBreak[] = [];
+		const after = new Map<number, number>([[input.universeId, address + f.slots]]);
+		let failed: string | null = null;
+		for (const b of more) {
+			const u = input.breakUniverses?.[b.dmxBreak] ?? input.universeId;
+			if (b.slots > UNIVERSE_SLOTS) {
+				failed = `break ${b.dmxBreak} needs ${b.slots} slots; a universe has 512`;
+				break;
+			}
+			// following on: a break sharing a universe with an earlier one goes after it where it can
+			const from = after.get(u) ?? 1;
+			const p = pool(u);
+			const a = p.take(b.slots, o.align, o.gap, from) ?? p.take(b.slots, o.align, o.gap);
+			if (a === null) {
+				const start = u === input.universeId ? o.start : 1;
+				failed = `break ${b.dmxBreak} ${noRun(b.slots, { ...o, start }, label(u))}`;
+				break;
+			}
+			placed.push({ dmxBreak: b.dmxBreak, universeId: u, address: a });
+			after.set(u, a + b.slots);
+		}
+		if (failed !== null) {
+			for (const [u, s] of saved) pool(u).restore(s);
+			result.unplaced.push({ fixtureId: f.id, reason: failed });
+			continue;
+		}
+		result.placed.push(placed.length > 0 ? { fixtureId: f.id, address, breaks: placed } : { fixtureId: f.id, address });
 	}
 	return result;
 }

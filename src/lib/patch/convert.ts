@@ -54,20 +54,57 @@ export function joinCoarseFine(coarse: number, fine: number): number {
 }
 
 export interface PhysicalRange {
+	/** Physical value at the first DMX value of the range; may exceed `max` (a range running downward). */
 	min: number;
+	/** Physical value at the last DMX value of the range. */
 	max: number;
+	/**
+	 * DMX sub-range the physical range covers (DIN SPEC 15800 channel function: from its DMXFrom to one
+	 * below the next function's DMXFrom); the whole channel when absent.
+	 */
+	dmxFrom?: number;
+	dmxTo?: number;
 }
 
-/** Physical value (K, °) → DMX through a channel's range: linear, clamped, round half up. */
+function dmxSpan(range: PhysicalRange, bits: Bits): [number, number] {
+	const top = maxValue(bits);
+	const lo = clamp(range.dmxFrom ?? 0, 0, top);
+	return [lo, clamp(range.dmxTo ?? top, lo, top)];
+}
+
+/**
+ * Physical value (K, °) → DMX through a channel's range: linear from `min` at the sub-range's first
+ * value to `max` at its last, clamped to the sub-range, round half up. A downward range (10000 → 2000 K)
+ * maps the higher value to the lower DMX value.
+ */
 export function physicalToDmx(value: number, range: PhysicalRange, bits: Bits = 8): number {
+	const [lo, hi] = dmxSpan(range, bits);
 	const span = range.max - range.min;
-	if (span === 0) return 0;
+	if (span === 0) return lo;
 	const t = clamp((value - range.min) / span, 0, 1);
-	return roundHalfUp(t * maxValue(bits));
+	return roundHalfUp(lo + t * (hi - lo));
 }
 
+/** DMX → physical value through a channel's range; a DMX value outside the sub-range is clamped to it. */
 export function dmxToPhysical(value: number, range: PhysicalRange, bits: Bits = 8): number {
-	return range.min + (clamp(value, 0, maxValue(bits)) / maxValue(bits)) * (range.max - range.min);
+	const [lo, hi] = dmxSpan(range, bits);
+	if (hi === lo) return range.min;
+	return range.min + ((clamp(value, lo, hi) - lo) / (hi - lo)) * (range.max - range.min);
+}
+
+/** Whether a DMX value falls inside the range's sub-range (outside it the channel does something else). */
+export function inPhysicalRange(value: number, range: PhysicalRange, bits: Bits = 8): boolean {
+	const [lo, hi] = dmxSpan(range, bits);
+	return value >= lo && value <= hi;
+}
+
+/** "10000 → 2000 K at DMX 0–199", "0 → 360 °" — a channel's range as a person reads it. */
+export function physicalRangeText(range: PhysicalRange & { unit?: string }, bits: Bits = 8): string {
+	const unit = range.unit ? ` ${range.unit}` : '';
+	const text = `${range.min} → ${range.max}${unit}`;
+	if (range.dmxFrom === undefined && range.dmxTo === undefined) return text;
+	const [lo, hi] = dmxSpan(range, bits);
+	return `${text} at DMX ${lo}–${hi}`;
 }
 
 // SBUS / CRSF 11-bit channel values: 172 = −100 %, 992 = centre, 1811 = +100 % (common practice

@@ -81,7 +81,13 @@ export function whereText(control: FixtureControl | undefined, ctx: DescribeCont
 	};
 	switch (control.kind) {
 		case 'dmx':
-			return `${universe(control.universeId)}.${control.address}`;
+			// DIN SPEC 15800 DMX mode: each further break has its own universe and start address
+			return [
+				`${universe(control.universeId)}.${control.address}`,
+				...[...(control.breaks ?? [])]
+					.sort((x, y) => x.dmxBreak - y.dmxBreak)
+					.map((b) => `break ${b.dmxBreak} ${universe(b.universeId)}.${b.address}`)
+			].join(', ');
 		case 'dmx-map':
 			return Object.entries(control.addresses)
 				.sort((a, b) => a[1] - b[1])

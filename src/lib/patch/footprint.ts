@@ -230,3 +230,15 @@ export function formatSlots(slots: readonly number[]): string {
 		.map((r) => (r.start === r.end ? `${r.start}` : `${r.start}–${r.end}`))
 		.join(', ');
 }
+
+/** "6 slots", or per break for a mode over several DMX breaks: "6 + 4 slots (breaks 1 and 2)". */
+export function footprintText(mode: {
+	slots: number;
+	breaks?: readonly { dmxBreak: number; slots: number }[];
+}): string {
+	const plural = (n: number) => `${n} ${n === 1 ? 'slot' : 'slots'}`;
+	const bs = mode.breaks ?? [];
+	if (bs.length < 2) return plural(mode.slots);
+	const names = bs.map((b) => b.dmxBreak);
+	return `${bs.map((b) => b.slots).join(' + ')} slots (breaks ${names.slice(0, -1).join(', ')} and ${names[names.length - 1]})`;
+}

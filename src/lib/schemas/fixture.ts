@@ -135,6 +135,12 @@ export const autopatchInput = z.strictObject({
 	start: address.default(1),
 	align: z.int().min(1).max(512).default(1),
 	gap: z.int().min(0).max(511).default(0),
+	// a multi-break mode's further breaks: each to a universe of its own; a break not listed follows on after break 1
+	breakUniverses: z
+		.array(z.strictObject({ dmxBreak: breakAddressInput.shape.dmxBreak, universeId: id }))
+		.max(63)
+		.refine((bs) => new Set(bs.map((b) => b.dmxBreak)).size === bs.length, 'Each DMX break is listed once.')
+		.default([]),
 	apply: z.boolean().default(false)
 });
 

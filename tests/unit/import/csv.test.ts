@@ -69,6 +69,52 @@ describe('CSV patch parsing', () => {
 		]);
 	});
 
+	// DIN SPEC 15800 DMX mode: a mode may span several DMX breaks, each with its own start address.
+	it('reads further breaks from the range column our export writes and from "break N" columns', () => {
+		const text = [
+			'number,universe,address,range,Break 3',
+			'1,1,1,1.1–6; break 2 2.10–13,',
+			'2,1,7,1.7–12; break 2 2.?,',
+			'3,1,20,,3.5',
+			'4,1,30,1.30–35; break 2 2.20–23,4/1'
+		].join('\n');
+		const { rows, issues, ignored } = parseCsvPatch(text);
+		expect(issues).toEqual([]);
+		expect(ignored).toEqual([]);
+		expect(rows.map((r) => r.breaks)).toEqual([
+			[{ dmxBreak: 2, universe: 2, address: 10 }],
+			undefined,
+			[{ dmxBreak: 3, universe: 3, address: 5 }],
+			[
+				{ dmxBreak: 2, universe: 2, address: 20 },
+				{ dmxBreak: 3, universe: 4, address: 1 }
+			]
+		]);
+	});
+
+	it('names a bad break cell, a break without break 1, and a break column that disagrees with the range', () => {
+		const text = [
+			'number,universe,address,range,break 2',
+			'1,1,1,,two.ten',
+			'2,,,,2.10',
+			'3,1,1,1.1–6; break 2 2.10–13,2.11',
+			'4,1,1,1.1–6; break 1 2.10–13,'
+		].join('\n');
+		const { rows, issues } = parseCsvPatch(text);
+		expect(rows).toEqual([]);
+		expect(issues).toEqual([
+			{ row: 2, field: 'break 2', message: '"two.ten" is not universe.address like 2.101 for break 2.' },
+			{
+				row: 3,
+				field: 'address',
+				message:
+					'Break 2 has a universe and address but break 1 has none; give break 1 in the universe and address columns.'
+			},
+			{ row: 4, field: 'break 2', message: 'The break 2 column says 2.11 but the range column says 2.10–13.' },
+			{ row: 5, field: 'range', message: 'Break 1 is not a further DMX break; breaks 2–64 go here.' }
+		]);
+	});
+
 	it('takes back the quote our export puts before a formula-like cell', () => {
 		const { rows } = parseCsvPatch(`number,label,universe,address\n1,"'=cue 1",1,1`);
 		expect(rows[0].label).toBe('=cue 1');

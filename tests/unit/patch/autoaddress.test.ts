@@ -1,6 +1,12 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { autoAddress, autoAddressAcross, type AutoAddressFixture } from '../../../src/lib/patch';
+import {
+	autoAddress,
+	autoAddressAcross,
+	autoAddressBreaks,
+	type AutoAddressFixture,
+	type BreakFixture
+} from '../../../src/lib/patch';
 
 const fx = (id: number, slots: number, number = id): AutoAddressFixture => ({ id, number, slots });
 
@@ -201,5 +207,71 @@ describe('autoAddress — property: matches a slot-by-slot first fit, never over
 			}),
 			{ numRuns: 300 }
 		);
+	});
+});
+
+// DIN SPEC 15800 DMX mode: a mode may span several DMX breaks; each break needs its own start address.
+describe('autoAddressBreaks — a start address per DMX break', () => {
+	const two = (id: number, slots: number, more: number, number = id): BreakFixture => ({
+		id,
+		number,
+		slots,
+		breaks: [{ dmxBreak: 2, slots: more }]
+	});
+
+	it('places one-break fixtures exactly as autoAddress does', () => {
+		const fixtures = [fx(3, 4, 30), fx(1, 8, 10), fx(2, 2, 20)];
+		const occupied = [
+			{ start: 1, end: 4 },
+			{ start: 9, end: 20 }
+		];
+		expect(autoAddressBreaks({ fixtures, universeId: 7, occupied: new Map([[7, occupied]]), align: 1 })).toEqual(
+			autoAddress({ fixtures, occupied })
+		);
+	});
+
+	it('lets break 2 follow on after break 1 in the same universe, round addresses included', () => {
+		const r = autoAddressBreaks({ fixtures: [two(1, 6, 4), two(2, 6, 4)], universeId: 1 });
+		expect(r).toEqual({
+			placed: [
+				{ fixtureId: 1, address: 1, breaks: [{ dmxBreak: 2, universeId: 1, address: 7 }] },
+				{ fixtureId: 2, address: 11, breaks: [{ dmxBreak: 2, universeId: 1, address: 17 }] }
+			],
+			unplaced: []
+		});
+		const round = autoAddressBreaks({ fixtures: [two(1, 6, 4), two(2, 6, 4)], universeId: 1, align: 10 });
+		expect(round.placed.map((p) => [p.address, p.breaks?.[0].address])).toEqual([
+			[1, 11],
+			[21, 31]
+		]);
+	});
+
+	it('puts each break 2 on a universe of its own, filled from 1 around what is there', () => {
+		const r = autoAddressBreaks({
+			fixtures: [two(1, 6, 4), two(2, 6, 4)],
+			universeId: 1,
+			start: 101,
+			breakUniverses: { 2: 2 },
+			occupied: new Map([[2, [{ start: 1, end: 2 }]]])
+		});
+		expect(r.placed).toEqual([
+			{ fixtureId: 1, address: 101, breaks: [{ dmxBreak: 2, universeId: 2, address: 3 }] },
+			{ fixtureId: 2, address: 107, breaks: [{ dmxBreak: 2, universeId: 2, address: 7 }] }
+		]);
+	});
+
+	it('places a fixture whole or not at all, and names the break that did not fit', () => {
+		const r = autoAddressBreaks({
+			fixtures: [two(1, 6, 500), fx(2, 6)],
+			universeId: 1,
+			breakUniverses: { 2: 2 },
+			occupied: new Map([[2, [{ start: 1, end: 20 }]]]),
+			labels: new Map([[2, 'universe 2']])
+		});
+		// fixture 1's break 1 is taken back, so fixture 2 gets address 1
+		expect(r).toEqual({
+			placed: [{ fixtureId: 2, address: 1 }],
+			unplaced: [{ fixtureId: 1, reason: 'break 2 needs 500 slots; no free run of 500 from 1 in universe 2' }]
+		});
 	});
 });

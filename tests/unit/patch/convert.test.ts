@@ -3,6 +3,8 @@ import { describe, expect, it } from 'vitest';
 import {
 	dmxToPercent,
 	dmxToPhysical,
+	inPhysicalRange,
+	physicalRangeText,
 	joinCoarseFine,
 	joinValue,
 	percentToDmx,
@@ -70,6 +72,39 @@ describe('physical value ↔ DMX through a channel range (linear, clamped)', () 
 		expect(physicalToDmx(180, { min: 0, max: 360 })).toBe(128);
 		expect(dmxToPhysical(255, { min: 0, max: 360 })).toBe(360);
 		expect(dmxToPhysical(0, cct, 16)).toBe(2000);
+	});
+
+	// DIN SPEC 15800 channel function: PhysicalFrom is at the function's DMXFrom and PhysicalTo at its
+	// last value, one below the next function's DMXFrom; the direction is kept (the CTC example).
+	it("maps through the channel function's sub-range: CTC 10000 → 2000 K over DMX 0–199", () => {
+		const ctc = { min: 10000, max: 2000, dmxFrom: 0, dmxTo: 199 };
+		expect(physicalToDmx(10000, ctc)).toBe(0);
+		expect(physicalToDmx(2000, ctc)).toBe(199);
+		// 6000 K is halfway: 99.5 rounds half up to 100
+		expect(physicalToDmx(6000, ctc)).toBe(100);
+		expect(physicalToDmx(1000, ctc)).toBe(199);
+		expect(dmxToPhysical(0, ctc)).toBe(10000);
+		expect(dmxToPhysical(199, ctc)).toBe(2000);
+		expect(dmxToPhysical(100, ctc)).toBeCloseTo(10000 - (100 / 199) * 8000, 9);
+		// 200–255 belongs to the next channel function: no kelvin there, and the value is clamped
+		expect(dmxToPhysical(230, ctc)).toBe(2000);
+		expect([0, 199, 200].map((v) => inPhysicalRange(v, ctc))).toEqual([true, true, false]);
+		expect(physicalRangeText({ ...ctc, unit: 'K' })).toBe('10000 → 2000 K at DMX 0–199');
+		expect(physicalRangeText({ min: 0, max: 360, unit: '°' })).toBe('0 → 360 °');
+	});
+
+	it('a sub-range starting above 0 at 16 bits: hue 0 → 360 ° over 1000–60999', () => {
+		const hue = { min: 0, max: 360, dmxFrom: 1000, dmxTo: 60999 };
+		expect(physicalToDmx(0, hue, 16)).toBe(1000);
+		expect(physicalToDmx(360, hue, 16)).toBe(60999);
+		expect(physicalToDmx(180, hue, 16)).toBe(31000);
+		expect(dmxToPhysical(31000, hue, 16)).toBeCloseTo((30000 / 59999) * 360, 9);
+		expect(dmxToPhysical(500, hue, 16)).toBe(0);
+	});
+
+	it('round-trips every DMX value of a sub-range to itself', () => {
+		const ctc = { min: 10000, max: 2000, dmxFrom: 0, dmxTo: 199 };
+		for (let v = 0; v <= 199; v++) expect(physicalToDmx(dmxToPhysical(v, ctc), ctc)).toBe(v);
 	});
 });
 

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { describeChanges, diffPatches, type SnapshotFixture, type SnapshotRecord } from '../../../src/lib/patch';
+import {
+	describeChanges,
+	diffPatches,
+	historyText,
+	whereText,
+	type SnapshotFixture,
+	type SnapshotRecord
+} from '../../../src/lib/patch';
 
 // Invented rig: one type with an 8-bit and a 16-bit HSIC mode; two universes.
 const types: SnapshotRecord[] = [
@@ -80,5 +87,35 @@ describe('describeChanges', () => {
 		const after = [{ ...universes[0], number: 3, transport: 'artnet' }, universes[1]];
 		const d = words([fx()], [fx()], after);
 		expect(d.plan.map((l) => l.text)).toEqual(['Universe 3 Deck: renumbered from 1 to 3; now Art-Net (was Wired DMX)']);
+	});
+});
+
+// DIN SPEC 15800 DMX mode: a fixture over two breaks has a start address per break.
+describe('a fixture over two DMX breaks in words', () => {
+	const ctx = {
+		universes: new Map([
+			[1, { id: 1, number: 1 }],
+			[2, { id: 2, number: 2 }]
+		]),
+		receivers: new Map(),
+		fixtures: new Map(),
+		modes: new Map()
+	};
+	it("says each break's universe.address, so moving break 2 is a change in the history", () => {
+		const at = (address: number) => ({
+			kind: 'dmx' as const,
+			universeId: 1,
+			address: 1,
+			breaks: [{ dmxBreak: 2, universeId: 2, address }]
+		});
+		expect(whereText(at(10), ctx)).toBe('1.1, break 2 2.10');
+		const text = historyText(
+			'fixture.update',
+			{ id: 5, number: 5, control: at(10) },
+			{ id: 5, number: 5, control: at(101) },
+			ctx
+		);
+		expect(text).not.toBe('saved it unchanged');
+		expect(text).toContain('break 2 2.101');
 	});
 });

@@ -4,6 +4,7 @@ import {
 	compactSlots,
 	expandRanges,
 	formatSlots,
+	footprintText,
 	modeSlotCount,
 	parameterSlots,
 	resolveDmx,
@@ -97,5 +98,21 @@ describe('footprint', () => {
 		expect(formatSlots([8, 5, 6, 7, 10])).toBe('5–8, 10');
 		expect(compactSlots([3, 1, 2, 2])).toEqual([{ start: 1, end: 3 }]);
 		expect(modeSlotCount(plainMode(1, 12))).toBe(12);
+	});
+});
+
+describe('footprintText — how a person reads a footprint', () => {
+	it('says slots once for one break and per break for several (DIN SPEC 15800 DMX mode breaks)', () => {
+		expect(footprintText({ slots: 1 })).toBe('1 slot');
+		expect(footprintText({ slots: 6, breaks: [{ dmxBreak: 1, slots: 6 }] })).toBe('6 slots');
+		expect(
+			footprintText({
+				slots: 6,
+				breaks: [
+					{ dmxBreak: 1, slots: 6 },
+					{ dmxBreak: 2, slots: 4 }
+				]
+			})
+		).toBe('6 + 4 slots (breaks 1 and 2)');
 	});
 });

@@ -1,13 +1,15 @@
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import {
-	autoAddress,
+	autoAddressBreaks,
 	breakFootprints,
 	defaultChannelCount,
+	modeBreaks,
 	modeSlotCount,
 	resolveDmx,
 	resolveDmxMap,
-	type AutoAddressResult,
-	type FootprintProblem
+	type AutoAddressBreaksResult,
+	type FootprintProblem,
+	type SlotRange
 } from '../../patch/index';
 import type { FieldIssue } from '../errors';
 import { DuplicateError, InUseError, InvalidError, NotFoundError, StaleVersionError } from '../errors';
@@ -122,6 +124,15 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 		case 'dmx-map': {
 			if (!ctx.universes.has(c.universeId)) at(['control', 'universeId'], 'No such universe in this project.');
 			if (!mode) break;
+			// DIN SPEC 15800 DMX mode: each break is its own DMX line; one map in one universe cannot say where the others land
+			const spans = modeBreaks(mode.mode);
+			if (spans.length > 1) {
+				at(
+					['control', 'kind'],
+					`Mode "${mode.mode.name}" spans DMX breaks ${spans.slice(0, -1).join(', ')} and ${spans[spans.length - 1]}; an address per parameter covers one universe only, so give this fixture a start address per break instead.`
+				);
+				break;
+			}
 			const slotted = new Set(mode.mode.channels.filter((ch) => ch.offset !== null).map((ch) => ch.parameter));
 			for (const key of Object.keys(c.addresses)) {
 				if (!slotted.has(key))
@@ -483,7 +494,7 @@ export function autopatch(
 	projectId: number,
 	userId: string,
 	input: AutopatchInput
-): AutoAddressResult & { applied: boolean } {
+): AutoAddressBreaksResult & { applied: boolean } {
 	return db().transaction(() => {
 		const patch = loadPatchCached(projectId);
 		const universe = patch.universes.find((u) => u.id === input.universeId);
@@ -500,23 +511,46 @@ export function autopatch(
 				{ path: ['fixtureIds'], message: `Unknown ids ${stray.join(', ')}.` }
 			]);
 		}
-		const slotsOf = new Map<number, number>();
-		for (const t of patch.types) for (const m of t.modes) slotsOf.set(m.id, m.slots);
-		const occupied = patch.fixtures
-			.filter(
-				(f) =>
-					!moving.has(f.id) &&
-					(f.control.kind === 'dmx' || f.control.kind === 'dmx-map') &&
-					f.control.universeId === input.universeId
-			)
-			.flatMap((f) => f.slots);
-		const result = autoAddress({
-			fixtures: chosen.map((f) => ({ id: f.id, number: f.number, slots: slotsOf.get(f.modeId) ?? 0 })),
+		const modeOf = new Map<number, ModeShape>();
+		for (const t of patch.types) for (const m of t.modes) modeOf.set(m.id, m);
+		const universeIds = new Set(patch.universes.map((u) => u.id));
+		const stray = input.breakUniverses.filter((b) => !universeIds.has(b.universeId));
+		if (stray.length > 0)
+			throw new InvalidError('No such universe in this project.', [
+				...stray.map((b) => ({
+					path: ['breakUniverses', input.breakUniverses.indexOf(b), 'universeId'],
+					message: `No such universe in this project for break ${b.dmxBreak}.`
+				}))
+			]);
+		// every slot claimed by a fixture that stays, per universe, break 1 and further breaks alike
+		const occupied = new Map<number, SlotRange[]>();
+		const claim = (u: number | null, runs: readonly SlotRange[]) => {
+			if (u === null || runs.length === 0) return;
+			const list = occupied.get(u) ?? [];
+			list.push(...runs);
+			occupied.set(u, list);
+		};
+		for (const f of patch.fixtures) {
+			if (moving.has(f.id)) continue;
+			if (f.control.kind === 'dmx' || f.control.kind === 'dmx-map') claim(f.control.universeId, f.slots);
+			for (const b of f.breakSlots ?? []) claim(b.universeId, b.ranges);
+		}
+		const labels = new Map(patch.universes.map((u) => [u.id, `universe ${u.number}`]));
+		const result = autoAddressBreaks({
+			fixtures: chosen.map((f) => {
+				const mode = modeOf.get(f.modeId);
+				const breaks = mode?.breaks?.filter((b) => b.dmxBreak !== 1);
+				return breaks && breaks.length > 0
+					? { id: f.id, number: f.number, slots: mode?.slots ?? 0, breaks }
+					: { id: f.id, number: f.number, slots: mode?.slots ?? 0 };
+			}),
+			universeId: input.universeId,
+			breakUniverses: Object.fromEntries(input.breakUniverses.map((b) => [b.dmxBreak, b.universeId])),
 			occupied,
+			labels,
 			start: input.start,
 			align: input.align,
-			gap: input.gap,
-			universeLabel: `universe ${universe.number}`
+			gap: input.gap
 		});
 		if (input.apply) {
 			const byId = new Map(chosen.map((f) => [f.id, f]));
@@ -525,7 +559,7 @@ export function autopatch(
 				const row = db()
 					.update(fixtures)
 					.set({
-						...controlColumns({ kind: 'dmx', universeId: input.universeId, address: p.address }),
+						...controlColumns({ kind: 'dmx', universeId: input.universeId, address: p.address, breaks: p.breaks }),
 						version: sql`${fixtures.version} + 1`,
 						updatedAt: new Date()
 					})

@@ -1,4 +1,4 @@
-import { and, asc, eq, sql } from 'drizzle-orm';
+import { and, asc, eq, or, sql } from 'drizzle-orm';
 import { DuplicateError, InUseError, NotFoundError, StaleVersionError } from '../errors';
 import { INSERT_CHUNK, recordAudit, recordAuditMany } from './audit';
 import { db } from './index';
@@ -137,12 +137,19 @@ export function updateUniverse(
 export function deleteUniverse(projectId: number, userId: string, id: number, detach: boolean): void {
 	db().transaction(() => {
 		const before = requireUniverse(projectId, id);
+		// a fixture uses the universe through break 1 (universe_id) or any further DMX break (break_addresses)
 		const users = db()
 			.select()
 			.from(fixtures)
-			.where(and(eq(fixtures.projectId, projectId), eq(fixtures.universeId, id)))
+			.where(
+				and(
+					eq(fixtures.projectId, projectId),
+					or(eq(fixtures.universeId, id), sql`${fixtures.breakAddresses} is not null`)
+				)
+			)
 			.orderBy(asc(fixtures.number))
-			.all();
+			.all()
+			.filter((f) => f.universeId === id || (f.breakAddresses ?? []).some((b) => b.universeId === id));
 		if (users.length > 0 && !detach) {
 			throw new InUseError(
 				`Universe ${before.number} is used by ${users.length === 1 ? 'fixture' : 'fixtures'} ${users.map((f) => f.number).join(', ')}; move them first or delete with ?detach=true to set them to manual.`,
@@ -179,6 +186,7 @@ export function detachFixture(projectId: number, userId: string, f: typeof fixtu
 			controlKind: f.controlKind,
 			universeId: f.universeId,
 			address: f.address,
+			breakAddresses: f.breakAddresses,
 			addressMap: f.addressMap,
 			receiverId: f.receiverId,
 			rcChannels: f.rcChannels,

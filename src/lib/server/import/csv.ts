@@ -9,6 +9,7 @@ import { createUniverses } from '../db/universes';
 import { fixtureCreate, type ControlInput, type FixtureCreate } from '../../schemas/fixture';
 import { universeCreate, type UniverseCreate } from '../../schemas/universe';
 import type { ImportIssue } from './gdtf';
+import type { BreakAddress } from '../../patch/index';
 
 // A patch spreadsheet as CSV: one row per fixture. Headers are matched loosely;
 // rows name types by maker + model + mode and universes by number. The whole
@@ -27,7 +28,8 @@ export type CsvField =
 	| 'position'
 	| 'group'
 	| 'notes'
-	| 'feed';
+	| 'feed'
+	| 'range';
 
 const SYNONYMS: Record<CsvField, string[]> = {
 	number: [
@@ -65,8 +67,15 @@ const SYNONYMS: Record<CsvField, string[]> = {
 	position: ['position', 'pos', 'location', 'hangingposition', 'rigposition'],
 	group: ['group', 'groupname'],
 	notes: ['notes', 'note', 'comments', 'comment', 'remarks'],
-	feed: ['feed', 'power', 'powerfeed']
+	feed: ['feed', 'power', 'powerfeed'],
+	// our export's range column: "1.1–6; break 2 2.10–13" carries the start of each further DMX break
+	range: ['range', 'slotrange', 'dmxrange']
 };
+
+/** A column "break 2" (also "Break2 patch") holding universe.address for that DMX break. */
+const BREAK_COLUMN = /^break(\d{1,2})(?:patch|address|universeaddress)?$/;
+// DIN SPEC 15800 DMX mode: breaks are numbered from 1; break 1 is the universe and address columns
+const MAX_BREAK = 64;
 
 /** a whole rig in one file; the import runs in multi-row statements inside one transaction */
 export const MAX_CSV_ROWS = 20000;
@@ -82,15 +91,25 @@ const BY_NAME = new Map<string, CsvField>();
 for (const [field, names] of Object.entries(SYNONYMS) as [CsvField, string[]][])
 	for (const n of names) BY_NAME.set(n, field);
 
-export function matchHeaders(header: string[]): { columns: Partial<Record<CsvField, number>>; ignored: string[] } {
+export function matchHeaders(header: string[]): {
+	columns: Partial<Record<CsvField, number>>;
+	ignored: string[];
+	/** break number → column index, for "break 2"-style columns */
+	breakColumns?: Map<number, number>;
+} {
 	const columns: Partial<Record<CsvField, number>> = {};
 	const ignored: string[] = [];
+	let breakColumns: Map<number, number> | undefined;
 	header.forEach((h, i) => {
-		const field = BY_NAME.get(normaliseHeader(h));
+		const name = normaliseHeader(h);
+		const field = BY_NAME.get(name);
+		const brk = BREAK_COLUMN.exec(name);
+		const n = brk ? Number(brk[1]) : 0;
 		if (field && columns[field] === undefined) columns[field] = i;
+		else if (n >= 2 && n <= MAX_BREAK && !breakColumns?.has(n)) (breakColumns ??= new Map()).set(n, i);
 		else if (h.trim() !== '') ignored.push(h.trim());
 	});
-	return { columns, ignored };
+	return breakColumns ? { columns, ignored, breakColumns } : { columns, ignored };
 }
 
 export interface CsvRow {
@@ -106,6 +125,8 @@ export interface CsvRow {
 	group?: string;
 	notes?: string;
 	feed?: string;
+	/** Start of DMX breaks 2…n (a multi-break mode), by universe number; absent when the row gives none. */
+	breaks?: { dmxBreak: number; universe: number; address: number }[];
 }
 
 /** Our own export guards cells against formula injection with a leading quote; take it back off on the way in. */
@@ -118,6 +139,25 @@ function int(text: string): number | null {
 	return /^\d+$/.test(text) ? Number(text) : null;
 }
 
+// "2.10", "2.10–13" (the export writes the break's slot range; its first slot is the start), 2/10, 2:10
+const BREAK_PATCH = /^(\d{1,6})\s*[./:]\s*(\d{1,6})(?:\s*[–-]\s*\d{1,6})?$/;
+const RANGE_BREAK = /^break\s*(\d{1,6})\s+(.*)$/i;
+
+type BreakCells = Map<number, { text: string; where: string }>;
+
+/** The break parts of the range column ("…; break 2 2.10–13"); other parts belong to break 1 or a map. */
+function rangeBreaks(range: string, out: BreakCells): string | null {
+	for (const part of range.split(';')) {
+		const m = RANGE_BREAK.exec(part.trim());
+		if (!m) continue;
+		// the export writes "break 2 2.?" for a break with no address yet: nothing to import
+		if (/\.\?$/.test(m[2].trim())) continue;
+		const n = Number(m[1]);
+		if (out.has(n)) return `The range column gives break ${n} twice.`;
+		out.set(n, { text: m[2].trim(), where: 'range' });
+	}
+	return null;
+}
 /** Parses the text into rows (spreadsheet row numbers: the header is row 1) and row-level issues. */
 export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIssue[]; ignored: string[] } {
 	const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ''), { header: false, skipEmptyLines: false });
@@ -137,7 +177,7 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 			{ code: 'invalid-file' }
 		);
 	}
-	const { columns, ignored } = matchHeaders(records[0]);
+	const { columns, ignored, breakColumns } = matchHeaders(records[0]);
 	const missing: string[] = [];
 	if (columns.number === undefined) missing.push('number');
 	if (columns.universe === undefined && columns.address === undefined && columns.patch === undefined)
@@ -202,6 +242,33 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 			out.universe = u;
 			out.address = a;
 		}
+		const cells: BreakCells = new Map();
+		const twice = rangeBreaks(get('range'), cells);
+		if (twice) return bad('range', twice);
+		for (const [n, col] of breakColumns ?? []) {
+			const text = cell(rec[col]);
+			if (text === '') continue;
+			const other = cells.get(n);
+			if (other && other.text.replace(/\s*[–-].*$/, '') !== text.replace(/\s*[–-].*$/, ''))
+				return bad(`break ${n}`, `The break ${n} column says ${text} but the range column says ${other.text}.`);
+			cells.set(n, { text, where: `break ${n}` });
+		}
+		if (cells.size > 0) {
+			const breaks: NonNullable<CsvRow['breaks']> = [];
+			for (const [n, { text, where }] of [...cells].sort((x, y) => x[0] - y[0])) {
+				if (n < 2 || n > MAX_BREAK)
+					return bad(where, `Break ${n} is not a further DMX break; breaks 2–${MAX_BREAK} go here.`);
+				const m = BREAK_PATCH.exec(text);
+				if (!m) return bad(where, `"${text}" is not universe.address like 2.101 for break ${n}.`);
+				breaks.push({ dmxBreak: n, universe: Number(m[1]), address: Number(m[2]) });
+			}
+			if (out.universe === undefined)
+				return bad(
+					'address',
+					`Break ${breaks[0].dmxBreak} has a universe and address but break 1 has none; give break 1 in the universe and address columns.`
+				);
+			out.breaks = breaks;
+		}
 		rows.push(out);
 	});
 	return { rows, issues, ignored };
@@ -226,8 +293,14 @@ const FIELD_OF: Record<string, string> = {
 	modeId: 'mode'
 };
 
-function fieldOf(path: (string | number)[]): string {
+function fieldOf(path: (string | number)[], breaks?: readonly { dmxBreak: number }[]): string {
 	const names = path.filter((p): p is string => typeof p === 'string' && p !== 'control' && p !== 'fixtures');
+	if (names[0] === 'breaks') {
+		// control.breaks[k] is the row's k-th further break: name it as the file does
+		const k = path[path.indexOf('breaks') + 1];
+		const n = typeof k === 'number' ? breaks?.[k]?.dmxBreak : undefined;
+		return n === undefined ? 'range' : `break ${n}`;
+	}
 	return FIELD_OF[names[0] ?? ''] ?? names[0] ?? 'row';
 }
 
@@ -237,19 +310,44 @@ class Rollback extends Error {
 	}
 }
 
-function issuesOf(err: unknown, rowAt: (i: number) => number): ImportIssue[] {
+function issuesOf(
+	err: unknown,
+	many: boolean,
+	rowAt: (i: number) => { row: number; breaks?: readonly { dmxBreak: number }[] }
+): ImportIssue[] {
 	if (!(err instanceof DomainError)) throw err;
 	const list = err.issues() ?? [];
 	if (list.length === 0) return [{ row: null, field: 'row', message: err.message }];
 	return list.map((i) => {
 		if (!('path' in i)) return i;
-		const idx = i.path.find((p): p is number => typeof p === 'number') ?? 0;
-		return { row: rowAt(idx), field: fieldOf(i.path), message: i.message };
+		// a batch's paths start with the item's index; a single write's do not
+		const idx = many ? (i.path.find((p): p is number => typeof p === 'number') ?? 0) : 0;
+		const at = rowAt(idx);
+		return { row: at.row, field: fieldOf(i.path, at.breaks), message: i.message };
 	});
 }
 
-function patchText(u: number | undefined, a: number | undefined): string {
-	return u === undefined ? '' : `${u}.${a}`;
+function controlBreaks(c: ControlInput | undefined): readonly { dmxBreak: number }[] | undefined {
+	return c?.kind === 'dmx' ? c.breaks : undefined;
+}
+
+function patchText(u: number | undefined, a: number | undefined, breaks?: CsvRow['breaks']): string {
+	if (u === undefined) return '';
+	return [`${u}.${a}`, ...(breaks ?? []).map((b) => `break ${b.dmxBreak} ${b.universe}.${b.address}`)].join('; ');
+}
+
+function breakKey(bs: readonly { dmxBreak: number; universeId: number | null; address: number }[] | undefined): string {
+	return (bs ?? [])
+		.map((b) => `${b.dmxBreak}:${b.universeId}.${b.address}`)
+		.sort()
+		.join(' ');
+}
+
+function sameDmx(
+	a: { universeId: number | null; address: number; breaks?: readonly BreakAddress[] },
+	b: { universeId: number; address: number; breaks?: readonly BreakAddress[] }
+): boolean {
+	return a.universeId === b.universeId && a.address === b.address && breakKey(a.breaks) === breakKey(b.breaks);
 }
 
 /** Plans and (with `apply`) writes the CSV rows; any bad row refuses the whole file with 422 naming every bad row. */
@@ -290,17 +388,19 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 			// universes the file names that the project lacks: checked, then created in one batch
 			const newUniverses = new Map<number, UniverseCreate>();
 			for (const r of rows) {
-				if (r.universe === undefined || universeIds.has(r.universe) || newUniverses.has(r.universe)) continue;
-				const u = universeCreate.safeParse({
-					number: r.universe,
-					name: `Universe ${r.universe}`,
-					transport: 'dmx-wired'
-				});
-				if (!u.success) {
-					issues.push({ row: r.row, field: 'universe', message: u.error.issues[0].message });
-					continue;
+				const named = [
+					{ number: r.universe, field: 'universe' },
+					...(r.breaks ?? []).map((b) => ({ number: b.universe, field: `break ${b.dmxBreak}` }))
+				];
+				for (const { number, field } of named) {
+					if (number === undefined || universeIds.has(number) || newUniverses.has(number)) continue;
+					const u = universeCreate.safeParse({ number, name: `Universe ${number}`, transport: 'dmx-wired' });
+					if (!u.success) {
+						issues.push({ row: r.row, field, message: u.error.issues[0].message });
+						continue;
+					}
+					newUniverses.set(number, u.data);
 				}
-				newUniverses.set(r.universe, u.data);
 			}
 			for (const u of createUniverses(projectId, userId, [...newUniverses.values()])) {
 				universeIds.set(u.number, u.id);
@@ -353,9 +453,25 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 					typeId = type.id;
 					modeId = mode.id;
 				}
+				// a row that names no further breaks keeps the fixture's own, as long as its mode stays
+				const keptBreaks =
+					r.breaks === undefined && before?.control.kind === 'dmx' && (modeId ?? before.modeId) === before.modeId
+						? before.control.breaks
+						: undefined;
+				const breaks =
+					r.breaks?.map((b) => ({
+						dmxBreak: b.dmxBreak,
+						universeId: universeIds.get(b.universe)!,
+						address: b.address
+					})) ?? keptBreaks?.map((b) => ({ dmxBreak: b.dmxBreak, universeId: b.universeId ?? 0, address: b.address }));
 				const control: ControlInput | undefined =
 					r.universe !== undefined
-						? { kind: 'dmx', universeId: universeIds.get(r.universe)!, address: r.address! }
+						? {
+								kind: 'dmx',
+								universeId: universeIds.get(r.universe)!,
+								address: r.address!,
+								...(breaks !== undefined && breaks.length > 0 ? { breaks } : {})
+							}
 						: undefined;
 				if (!before) {
 					const parsed = fixtureCreate.safeParse({
@@ -382,7 +498,7 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						label: r.label ?? '',
 						type: `${t.maker} ${t.model}`,
 						mode: t.modes.find((m) => m.id === modeId)!.name,
-						patch: patchText(r.universe, r.address)
+						patch: patchText(r.universe, r.address, r.breaks)
 					});
 				} else {
 					const change: FixtureChange = { id: before.id, version: before.version };
@@ -403,9 +519,9 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						what.push('type/mode');
 					}
 					const c = before.control;
-					if (control && !(c.kind === 'dmx' && c.universeId === control.universeId && c.address === control.address)) {
+					if (control && !(c.kind === 'dmx' && sameDmx(c, control))) {
 						change.control = control;
-						what.push(`patch → ${patchText(r.universe, r.address)}`);
+						what.push(`patch → ${patchText(r.universe, r.address, r.breaks)}`);
 					}
 					if (feed && !sameFeed(before.feed, feed)) {
 						change.feed = feed;
@@ -431,7 +547,12 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						creates.map((c) => c.input)
 					);
 				} catch (e) {
-					issues.push(...issuesOf(e, (i) => creates[i]?.row.row ?? creates[0].row.row));
+					issues.push(
+						...issuesOf(e, creates.length > 1, (i) => {
+							const c = creates[i] ?? creates[0];
+							return { row: c.row.row, breaks: controlBreaks(c.input.control) };
+						})
+					);
 				}
 			}
 			if (changes.length) {
@@ -442,7 +563,12 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						changes.map((c) => c.change)
 					);
 				} catch (e) {
-					issues.push(...issuesOf(e, (i) => changes[i]?.row.row ?? changes[0].row.row));
+					issues.push(
+						...issuesOf(e, true, (i) => {
+							const c = changes[i] ?? changes[0];
+							return { row: c.row.row, breaks: controlBreaks(c.change.control) };
+						})
+					);
 				}
 			}
 			if (issues.length > 0) {
