@@ -23,6 +23,8 @@ export interface SheetQuery {
 	revision?: number;
 	paper: Paper;
 	fixtures?: number[];
+	/** patch sheet: every DMX parameter at its universe.address (`?channels=absolute`) */
+	absolute?: boolean;
 }
 
 export function parseSheetQuery(params: URLSearchParams, kind: SheetKind): SheetQuery {
@@ -32,8 +34,12 @@ export function parseSheetQuery(params: URLSearchParams, kind: SheetKind): Sheet
 	const fixtures = params.get('fixtures');
 	if (fixtures !== null && kind !== 'labels')
 		throw new ApiError(400, 'fixtures= chooses labels; the other sheets print the whole patch.');
+	const channels = params.get('channels');
+	if (channels !== null && (kind !== 'patch' || !['offsets', 'absolute'].includes(channels)))
+		throw new ApiError(400, 'channels= is offsets or absolute, and only for the patch sheet.');
 	return {
 		paper: paper as Paper,
+		...(channels === 'absolute' ? { absolute: true } : {}),
 		...(revision !== null ? { revision: positiveInt(revision, 'revision') } : {}),
 		...(fixtures !== null
 			? {
@@ -92,6 +98,7 @@ export async function renderSheet(projectId: number, kind: SheetKind, query: She
 			patch: data.patch,
 			title,
 			paper: query.paper,
+			...(kind === 'patch' ? { patchOptions: { absolute: query.absolute ?? false } } : {}),
 			...(kind === 'labels' ? { labels: { baseUrl: publicBaseUrl(), projectId, numbers: query.fixtures } } : {})
 		},
 		`Printing the ${SHEET_TITLE[kind].toLowerCase()}`

@@ -4,7 +4,7 @@ import { parseCsvPatch } from '../import/csv';
 import { parseGdtf } from '../import/gdtf';
 import { decodeSpreadsheet } from '../import/limits';
 import { renderLabelSheet, type LabelOptions } from '../pdf/label-sheet';
-import { renderPatchSheet } from '../pdf/patch-sheet';
+import { renderPatchSheet, type PatchSheetOptions } from '../pdf/patch-sheet';
 import { renderRadioSheet } from '../pdf/radio-sheet';
 import type { Paper, TitleInfo } from '../pdf/common';
 import type { PatchData } from '../db/patch';
@@ -22,6 +22,7 @@ export type Task =
 			title: TitleInfo;
 			paper: Paper;
 			labels?: Omit<LabelOptions, 'paper'>;
+			patchOptions?: PatchSheetOptions;
 	  };
 
 /** A refusal crosses the thread boundary as data and is thrown again on the main thread. */
@@ -42,7 +43,7 @@ async function run(task: Task): Promise<unknown> {
 		case 'pdf': {
 			const pdf =
 				task.sheet === 'patch'
-					? await renderPatchSheet(task.patch, task.title, task.paper)
+					? await renderPatchSheet(task.patch, task.title, task.paper, task.patchOptions)
 					: task.sheet === 'radio'
 						? await renderRadioSheet(task.patch, task.title, task.paper)
 						: await renderLabelSheet(task.patch, task.title, { paper: task.paper, ...task.labels! });
