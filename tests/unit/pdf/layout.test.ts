@@ -1,6 +1,7 @@
 import QRCode from 'qrcode';
 import { describe, expect, it } from 'vitest';
-import { columnWidths, lineCount, MM, paperSize, slugify, fonts } from '../../../src/lib/server/pdf/common';
+import { columnWidths, lineCount, MM, paperSize, fonts } from '../../../src/lib/server/pdf/common';
+import { slugify } from '../../../src/lib/server/download-name';
 import { signoffLine } from '../../../src/lib/server/pdf/data';
 import { labelCell, labelGrid, qrRuns } from '../../../src/lib/server/pdf/label-sheet';
 import { addressText, channelList } from '../../../src/lib/server/pdf/patch-sheet';

@@ -465,16 +465,3 @@ export function paragraph(sheet: SheetDoc, cursor: Cursor, text: string, size = 
 	doc.text(text, sheet.left, cursor.y, { width: sheet.width });
 	cursor.y += h + 2;
 }
-
-/** "the-lantern-ferry-river-unit" for file names. */
-export function slugify(name: string): string {
-	const slug = name
-		.normalize('NFKD')
-		.replace(/[\u0300-\u036f]/g, '')
-		.toLowerCase()
-		.replace(/[^a-z0-9]+/g, '-')
-		.replace(/^-+|-+$/g, '')
-		.slice(0, 60)
-		.replace(/-+$/g, '');
-	return slug || 'project';
-}

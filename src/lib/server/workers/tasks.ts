@@ -8,6 +8,9 @@ import { renderPatchSheet, type PatchSheetOptions } from '../pdf/patch-sheet';
 import { renderRadioSheet } from '../pdf/radio-sheet';
 import type { Paper, TitleInfo } from '../pdf/common';
 import type { PatchData } from '../db/patch';
+import type { PowerView } from '../db/power';
+import { renderPowerSheet } from '../pdf/power-sheet';
+import type { PatchSheetKind } from '../pdf/respond';
 
 // What runs in the worker threads (pool.ts): the CPU-heavy, I/O-free steps of imports and
 // printed sheets. Plain data in, plain data out; no database here (it stays on the main thread).
@@ -17,13 +20,14 @@ export type Task =
 	| { kind: 'gdtf'; bytes: Uint8Array }
 	| {
 			kind: 'pdf';
-			sheet: 'patch' | 'labels' | 'radio';
+			sheet: PatchSheetKind;
 			patch: PatchData;
 			title: TitleInfo;
 			paper: Paper;
 			labels?: Omit<LabelOptions, 'paper'>;
 			patchOptions?: PatchSheetOptions;
-	  };
+	  }
+	| { kind: 'power-pdf'; power: PowerView; title: TitleInfo; paper: Paper };
 
 /** A refusal crosses the thread boundary as data and is thrown again on the main thread. */
 export interface Refusal {
@@ -47,6 +51,10 @@ async function run(task: Task): Promise<unknown> {
 					: task.sheet === 'radio'
 						? await renderRadioSheet(task.patch, task.title, task.paper)
 						: await renderLabelSheet(task.patch, task.title, { paper: task.paper, ...task.labels! });
+			return new Uint8Array(pdf.buffer, pdf.byteOffset, pdf.byteLength);
+		}
+		case 'power-pdf': {
+			const pdf = await renderPowerSheet(task.power, task.title, task.paper);
 			return new Uint8Array(pdf.buffer, pdf.byteOffset, pdf.byteLength);
 		}
 	}
