@@ -216,6 +216,19 @@ describe('radio sheet', () => {
 	});
 });
 
+describe('power sheet', () => {
+	it('says each warning in words, without its code, and prints every swap time (issue 19)', async () => {
+		const text = (await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/power.pdf`)))
+			.map((p) => p.text)
+			.join(' ')
+			.replace(/\s+/g, ' ');
+		// the demo's saloon circuit carries 2,400 W on a 10 A breaker at 230 V: over 100 %
+		expect(text).toContain('Saloon practicals (B10)');
+		expect(text).not.toMatch(/circuit-over|air-travel-|no-power-data|over-current|voltage-range/);
+		expect(text).not.toContain('…');
+	});
+});
+
 describe('access', () => {
 	it('lets every role print, answers 401 signed out, 404 to outsiders and 400 to a bad paper size', async () => {
 		for (const who of ['viewer', 'programmer', 'owner']) {
