@@ -51,6 +51,46 @@ describe('label sheet', () => {
 	});
 });
 
+describe('a crowded label', () => {
+	it('keeps all twelve radio channels and the link group of a fixture with a long receiver name', async () => {
+		const params = [
+			'intensity',
+			'hue',
+			'saturation',
+			'cct',
+			'red',
+			'green',
+			'blue',
+			'white',
+			'strobe',
+			'fan',
+			'control',
+			'tint'
+		];
+		const crowded = structuredClone(patch);
+		const f = crowded.fixtures.find((x) => x.label === 'TENDER PORT')!;
+		f.label = 'BOOM ARM LEFT SIDE HIGH UNIT NUMBER ONE';
+		f.linkGroup = 'CRANE-LEFT-PAIR';
+		f.control = { kind: 'rc', receiverId: 1, channels: Object.fromEntries(params.map((p, i) => [p, i + 5])) };
+		crowded.receivers[0].name = 'Camera crane receiver, operator side';
+		const mode = crowded.types.find((t) => t.id === f.typeId)!.modes.find((m) => m.id === f.modeId)!;
+		mode.channels = params.map((parameter, i) => ({ offset: i + 1, parameter, bits: 8, default: 0 }));
+		const [page] = await pdfPages(
+			await renderLabelSheet(
+				crowded,
+				{ ...SHEET_TITLE, sheet: 'Labels' },
+				{ paper: 'letter', baseUrl: 'http://127.0.0.1:3000', projectId: 1, numbers: [f.number] }
+			)
+		);
+		const flat = page.text.replace(/\s+/g, ' ');
+		expect(flat).toContain('Camera crane receiver, operator side');
+		for (const [i, p] of params.entries()) expect(flat).toContain(`${i + 5} ${p}`);
+		expect(flat).toContain('Link group CRANE-LEFT-PAIR');
+		expect(flat).toContain('BOOM ARM LEFT SIDE HIGH UNIT NUMBER ONE');
+		expect(flat).not.toContain('…');
+	});
+});
+
 describe('patch sheet', () => {
 	const title = { ...SHEET_TITLE, sheet: 'Patch sheet' };
 

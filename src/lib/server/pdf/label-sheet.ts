@@ -166,42 +166,39 @@ export interface LabelLine {
 }
 
 /**
- * Fits a label's text into its box: the number, the label, what to dial in and the mode. The
- * dial-in text wraps and shrinks (9 pt down to 5.5 pt) before anything is cut; the label and the
- * mode line give way first.
+ * Fits a label's text into its box: the number, the label, what to dial in, then the link group,
+ * the mode and the input. Everything shrinks step by step (the dial-in text from 9 pt to 5.5 pt)
+ * before anything is left out; then whole detail lines give way from the end (input first, the
+ * link group last), never the dial-in text.
  */
 export function layoutLabel(doc: Doc, t: LabelText, width: number, height: number): LabelLine[] {
 	const measure = (text: string, font: string, size: number) => {
 		doc.font(font).fontSize(size);
 		return doc.heightOfString(text, { width });
 	};
-	const details = [t.mode, `Input: ${t.source}`, t.link].filter(Boolean).join('\n');
-	const steps: [number, number, number][] = [
-		// [dial-in size, label size, details size]
-		[9, 8.5, 6.5],
-		[8, 8, 6],
-		[7, 7.5, 6],
-		[6.5, 7, 5.5],
-		[6, 6.5, 5.5],
-		[5.5, 6, 5]
+	const details = [t.link, t.mode, `Input: ${t.source}`].filter(Boolean);
+	const steps: [number, number, number, number][] = [
+		// [number size, label size, dial-in size, details size]
+		[18, 8.5, 9, 6.5],
+		[18, 8, 8, 6],
+		[16, 7.5, 7, 6],
+		[16, 7, 6.5, 5.5],
+		[14, 6.5, 6, 5.5],
+		[14, 6, 5.5, 5]
 	];
 	let out: LabelLine[] = [];
-	for (const [whereSize, labelSize, detailSize] of steps) {
-		const numberH = 23;
-		const labelH = Math.min(measure(t.label, FONT_BOLD, labelSize), 2.6 * labelSize);
-		const whereH = measure(t.where, FONT_BOLD, whereSize);
-		const detailH = measure(details, FONT, detailSize);
+	for (const [numberSize, labelSize, whereSize, detailSize] of steps) {
 		out = [
-			{ text: t.number, font: FONT_BOLD, size: 18, height: numberH },
-			{ text: t.label, font: FONT_BOLD, size: labelSize, height: labelH + 1 },
-			{ text: t.where, font: FONT_BOLD, size: whereSize, height: whereH + 1 },
-			{ text: details, font: FONT, size: detailSize, height: detailH }
+			{ text: t.number, font: FONT_BOLD, size: numberSize, height: numberSize * 1.25 },
+			{ text: t.label, font: FONT_BOLD, size: labelSize, height: measure(t.label, FONT_BOLD, labelSize) + 1 },
+			{ text: t.where, font: FONT_BOLD, size: whereSize, height: measure(t.where, FONT_BOLD, whereSize) + 1 },
+			...details.map((text) => ({ text, font: FONT, size: detailSize, height: measure(text, FONT, detailSize) }))
 		];
-		if (numberH + labelH + whereH + detailH + 2 <= height) return out;
+		if (out.reduce((sum, line) => sum + line.height, 0) <= height) return out;
 	}
-	// still too much at the smallest sizes: the details line gives up what does not fit
-	const used = out.slice(0, 3).reduce((s, line) => s + line.height, 0);
-	out[3].height = Math.max(0, height - used);
+	// still too much at the smallest sizes: the label keeps two lines, details go from the end
+	out[1].height = Math.min(out[1].height, 2 * doc.font(FONT_BOLD).fontSize(out[1].size).currentLineHeight(true) + 1);
+	while (out.length > 3 && out.reduce((sum, line) => sum + line.height, 0) > height) out.pop();
 	return out;
 }
 
