@@ -322,11 +322,12 @@ export class Table {
 		return this.widths[i] - 2 * this.style.padding - (c.key === this.indentKey ? (row.indent ?? 0) : 0);
 	}
 
-	rowHeight(row: Row): number {
-		let lines = 1;
-		this.columns.forEach((c, i) => {
-			lines = Math.max(lines, this.cellFit(row.cells[c.key] ?? '', this.cellWidth(i, row), c, row.bold).lines);
-		});
+	private fitsOf(row: Row): CellFit[] {
+		return this.columns.map((c, i) => this.cellFit(row.cells[c.key] ?? '', this.cellWidth(i, row), c, row.bold));
+	}
+
+	rowHeight(row: Row, fits: CellFit[] = this.fitsOf(row)): number {
+		const lines = fits.reduce((n, f) => Math.max(n, f.lines), 1);
 		return lines * this.lineHeight + 2 * this.style.padding;
 	}
 
@@ -378,7 +379,9 @@ export class Table {
 
 	row(row: Row): void {
 		const doc = this.sheet.doc;
-		const h = this.rowHeight(row);
+		// each cell measured once, for the row's height and for drawing it
+		const fits = this.fitsOf(row);
+		const h = this.rowHeight(row, fits);
 		if (this.cursor.y + h > this.sheet.bottom) {
 			this.newPage(true);
 			this.header();
@@ -400,7 +403,7 @@ export class Table {
 			const text = row.cells[c.key] ?? '';
 			const width = this.cellWidth(i, row);
 			if (text !== '') {
-				const fit = this.cellFit(text, width, c, row.bold);
+				const fit = fits[i];
 				doc.fontSize(fit.size);
 				// a smaller size sits on the row's first baseline, not at the top of the cell
 				const drop = (this.style.fontSize - fit.size) * 0.75;

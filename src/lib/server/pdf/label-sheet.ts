@@ -159,7 +159,7 @@ export function labelText(patch: PatchData, l: Lookup, f: Fixture): LabelText {
 /** One text block of a label, in the size it is drawn at. */
 export interface LabelLine {
 	text: string;
-	font: typeof FONT | typeof FONT_BOLD;
+	font: string;
 	size: number;
 	/** lines it may take before it ends in an ellipsis */
 	height: number;
