@@ -76,6 +76,22 @@ describe('patch sheet', () => {
 		});
 	});
 
+	it('fits the demo at 30 or more rows a page, and lists absolute per-parameter addresses on request (issue 19)', async () => {
+		const pages = await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/patch.pdf`));
+		expect(pages.length).toBeLessThanOrEqual(Math.ceil(patch.fixtures.length / 30));
+		const absolute = (await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/patch.pdf?channels=absolute`)))
+			.map((p) => p.text)
+			.join(' ')
+			.replace(/\s+/g, ' ');
+		// every DMX fixture's first parameter at its own universe.address
+		const number = new Map(patch.universes.map((u) => [u.id, u.number]));
+		for (const f of patch.fixtures.filter((x) => x.control.kind === 'dmx'))
+			expect(absolute).toContain(`${number.get(f.control.universeId!)}.${f.slots[0].start}`);
+		expect(absolute).toContain('Channels (universe.address parameter)');
+		const bad = await electrician.get(`/api/projects/${pid}/sheets/labels.pdf?channels=absolute`);
+		expect(bad.status).toBe(400);
+	});
+
 	it('embeds IBM Plex Sans (a FontFile2 stream) and carries title, author and creation date', async () => {
 		const data = await pdf(electrician, `/api/projects/${pid}/sheets/patch.pdf?paper=letter`);
 		const raw = Buffer.from(data).toString('latin1');
@@ -197,6 +213,19 @@ describe('radio sheet', () => {
 		// pdf.js reads the micro sign back as Greek mu; compare compatibility forms
 		expect(text.normalize('NFKC')).toContain('raw 172–1811 · 988–2012 µs'.normalize('NFKC'));
 		expect(text).toMatch(/failsafe/);
+	});
+});
+
+describe('power sheet', () => {
+	it('says each warning in words, without its code, and prints every swap time (issue 19)', async () => {
+		const text = (await pdfPages(await pdf(electrician, `/api/projects/${pid}/sheets/power.pdf`)))
+			.map((p) => p.text)
+			.join(' ')
+			.replace(/\s+/g, ' ');
+		// the demo's saloon circuit carries 2,400 W on a 10 A breaker at 230 V: over 100 %
+		expect(text).toContain('Saloon practicals (B10)');
+		expect(text).not.toMatch(/circuit-over|air-travel-|no-power-data|over-current|voltage-range/);
+		expect(text).not.toContain('…');
 	});
 });
 

@@ -1,6 +1,7 @@
 import QRCode from 'qrcode';
 import { describe, expect, it } from 'vitest';
-import { columnWidths, lineCount, MM, paperSize, slugify, woffToSfnt, fonts } from '../../../src/lib/server/pdf/common';
+import { columnWidths, lineCount, MM, paperSize, fonts } from '../../../src/lib/server/pdf/common';
+import { slugify } from '../../../src/lib/server/download-name';
 import { signoffLine } from '../../../src/lib/server/pdf/data';
 import { labelCell, labelGrid, qrRuns } from '../../../src/lib/server/pdf/label-sheet';
 import { addressText, channelList } from '../../../src/lib/server/pdf/patch-sheet';
@@ -100,8 +101,12 @@ describe('what the sheets say', () => {
 		expect(channelList(mode, { kind: 'dmx', universeId: 1, address: 100 })).toBe(
 			'1/2 intensity · 3 hue · fx (no slot)'
 		);
-		expect(channelList(mode, { kind: 'dmx-map', universeId: 1, addresses: { intensity: 20, hue: 30 } })).toBe(
-			'intensity @20/21 · hue @30 · fx @–'
+		expect(channelList(mode, { kind: 'dmx-map', universeId: 1, addresses: { intensity: 20, hue: 30 } }, () => 4)).toBe(
+			'4.20/21 intensity · 4.30 hue · fx (no slot)'
+		);
+		// the same dmx fixture at its absolute addresses: start 100, so intensity 100/101 and hue 102
+		expect(channelList(mode, { kind: 'dmx', universeId: 1, address: 100 }, () => 7)).toBe(
+			'7.100/101 intensity · 7.102 hue · fx (no slot)'
 		);
 	});
 
@@ -145,20 +150,27 @@ describe('what the sheets say', () => {
 		expect(() => q('revision=1.5')).toThrow(/whole number/);
 		expect(() => q('fixtures=1,x')).toThrow(/fixture number/);
 		expect(() => q('fixtures=1', 'patch')).toThrow(/labels/);
+		expect(q('channels=absolute', 'patch')).toEqual({ paper: 'a4', absolute: true });
+		expect(q('channels=offsets', 'patch')).toEqual({ paper: 'a4' });
+		expect(() => q('channels=absolute')).toThrow(/patch sheet/);
+		expect(() => q('channels=__proto__', 'patch')).toThrow(/offsets or absolute/);
 	});
 });
 
 describe('fonts', () => {
-	it('unwrap WOFF 1.0 into a TrueType sfnt that fontkit reads as IBM Plex Sans (W3C WOFF 1.0 §4–5)', async () => {
+	it('load IBM Plex Sans Regular and SemiBold as TrueType that fontkit reads, with the glyphs the sheets print', async () => {
 		// fontkit (pdfkit's font engine) ships no types; a string specifier keeps tsc out of it
 		const specifier: string = 'fontkit';
 		const fontkit = (await import(specifier)) as { create(b: Buffer): unknown };
-		const ttf = fonts()['Plex'];
-		expect(ttf.readUInt32BE(0)).toBe(0x00010000);
-		const font = fontkit.create(ttf) as { postscriptName: string; hasGlyphForCodePoint(c: number): boolean };
-		expect(font.postscriptName).toBe('IBMPlexSans-Regular');
-		// the characters the sheets print
-		for (const ch of '–—·µ°›') expect(font.hasGlyphForCodePoint(ch.codePointAt(0)!)).toBe(true);
-		expect(() => woffToSfnt(Buffer.from('not a font at all, sorry'))).toThrow(/WOFF/);
+		const names = { Plex: 'IBMPlexSans-Regular', 'Plex-SemiBold': 'IBMPlexSans-SemiBold' };
+		for (const [key, postscriptName] of Object.entries(names)) {
+			const ttf = fonts()[key];
+			// OpenType spec: sfnt version 0x00010000 marks TrueType outlines
+			expect(ttf.readUInt32BE(0)).toBe(0x00010000);
+			const font = fontkit.create(ttf) as { postscriptName: string; hasGlyphForCodePoint(c: number): boolean };
+			expect(font.postscriptName).toBe(postscriptName);
+			// the characters the sheets print, including the project names people type
+			for (const ch of '–—·µ°›…éüÇ') expect(font.hasGlyphForCodePoint(ch.codePointAt(0)!)).toBe(true);
+		}
 	});
 });

@@ -62,13 +62,5 @@ export function exportProject(projectId: number) {
 
 export type ProjectExport = ReturnType<typeof exportProject>;
 
-/** A file name safe in a Content-Disposition header: letters, digits and dashes only. */
-export function downloadName(projectName: string, what: string, ext: string): string {
-	const slug =
-		projectName
-			.toLowerCase()
-			.replace(/[^a-z0-9]+/g, '-')
-			.replace(/^-|-$/g, '')
-			.slice(0, 60) || 'project';
-	return `${slug}-${what}.${ext}`;
-}
+// one slug for every download: see download-name.ts
+export { downloadName } from '../download-name';

@@ -1,7 +1,6 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { inflateSync } from 'node:zlib';
 import PDFDocument from 'pdfkit';
 
 // What every printed sheet shares: paper, the embedded IBM Plex Sans, the
@@ -25,71 +24,20 @@ export type Doc = PDFKit.PDFDocument;
 export const FONT = 'Plex';
 export const FONT_BOLD = 'Plex-SemiBold';
 
+// IBM Plex Sans as plain TrueType, shipped beside this module under the SIL Open Font Licence
+// (fonts/OFL.txt): pdfkit reads it as it is, and subsets it into each PDF.
 const FONT_FILES: Record<string, string> = {
-	[FONT]: 'ibm-plex-sans-latin-400-normal.woff',
-	[FONT_BOLD]: 'ibm-plex-sans-latin-600-normal.woff'
+	[FONT]: 'IBMPlexSans-Regular.ttf',
+	[FONT_BOLD]: 'IBMPlexSans-SemiBold.ttf'
 };
 
-// The package's exports map only its CSS, so look for the files folder from
-// the working directory and from this module upwards (source, tsx and build).
-function fontDir(): string {
-	const tail = join('node_modules', '@fontsource', 'ibm-plex-sans', 'files');
-	const starts = [process.cwd(), dirname(fileURLToPath(import.meta.url))];
-	for (const start of starts) {
-		let dir = resolve(start);
-		for (;;) {
-			const candidate = join(dir, tail);
-			if (existsSync(candidate)) return candidate;
-			const up = dirname(dir);
-			if (up === dir) break;
-			dir = up;
-		}
-	}
-	throw new Error('IBM Plex Sans (@fontsource/ibm-plex-sans) is not installed');
-}
-
 /**
- * WOFF 1.0 (W3C) → the plain sfnt (TrueType) it wraps. fontkit reads WOFF
- * too, but inflates every table again for each document; unwrapping once per
- * process makes a sheet several hundred milliseconds faster.
+ * The fonts folder: beside this file when it runs from source (the PDF worker, tests, scripts);
+ * from a bundle, in the app's directory, as the worker file is found (workers/pool.ts).
  */
-export function woffToSfnt(woff: Buffer): Buffer {
-	if (woff.readUInt32BE(0) !== 0x774f4646) throw new Error('not a WOFF file');
-	const flavor = woff.readUInt32BE(4);
-	const numTables = woff.readUInt16BE(12);
-	const tables: { tag: number; checksum: number; data: Buffer }[] = [];
-	for (let i = 0; i < numTables; i++) {
-		const at = 44 + i * 20;
-		const offset = woff.readUInt32BE(at + 4);
-		const compLength = woff.readUInt32BE(at + 8);
-		const origLength = woff.readUInt32BE(at + 12);
-		const raw = woff.subarray(offset, offset + compLength);
-		const data = compLength < origLength ? inflateSync(raw) : Buffer.from(raw);
-		if (data.length !== origLength) throw new Error('WOFF table length mismatch');
-		tables.push({ tag: woff.readUInt32BE(at), checksum: woff.readUInt32BE(at + 16), data });
-	}
-	let entrySelector = 0;
-	while (2 ** (entrySelector + 1) <= numTables) entrySelector++;
-	const searchRange = 2 ** entrySelector * 16;
-	const headerSize = 12 + 16 * numTables;
-	const size = tables.reduce((s, t) => s + ((t.data.length + 3) & ~3), headerSize);
-	const out = Buffer.alloc(size);
-	out.writeUInt32BE(flavor, 0);
-	out.writeUInt16BE(numTables, 4);
-	out.writeUInt16BE(searchRange, 6);
-	out.writeUInt16BE(entrySelector, 8);
-	out.writeUInt16BE(numTables * 16 - searchRange, 10);
-	let offset = headerSize;
-	tables.forEach((t, i) => {
-		const at = 12 + i * 16;
-		out.writeUInt32BE(t.tag, at);
-		out.writeUInt32BE(t.checksum, at + 4);
-		out.writeUInt32BE(offset, at + 8);
-		out.writeUInt32BE(t.data.length, at + 12);
-		t.data.copy(out, offset);
-		offset += (t.data.length + 3) & ~3;
-	});
-	return out;
+export function fontDir(): string {
+	const beside = join(dirname(fileURLToPath(import.meta.url)), 'fonts');
+	return existsSync(beside) ? beside : resolve(process.env.PATCHWRIGHT_APP_DIR || '.', 'src/lib/server/pdf/fonts');
 }
 
 let fontCache: Record<string, Buffer> | null = null;
@@ -97,7 +45,7 @@ export function fonts(): Record<string, Buffer> {
 	if (!fontCache) {
 		const dir = fontDir();
 		fontCache = Object.fromEntries(
-			Object.entries(FONT_FILES).map(([name, file]) => [name, woffToSfnt(readFileSync(join(dir, file)))])
+			Object.entries(FONT_FILES).map(([name, file]) => [name, readFileSync(join(dir, file))])
 		);
 	}
 	return fontCache;
@@ -129,6 +77,8 @@ export interface SheetDoc {
 export const MARGIN = 12 * MM;
 const TITLE_HEIGHT = 40;
 const FOOTER_HEIGHT = 16;
+/** A dense table sheet: 8 mm margins (office printers leave 4–6 mm unprinted), a lower title block. */
+const COMPACT = { margin: 8 * MM, title: 34, footer: 12 };
 
 export interface OpenOptions {
 	paper: Paper;
@@ -137,6 +87,8 @@ export interface OpenOptions {
 	/** Labels print edge to edge of their grid; they get no title block. */
 	bare?: boolean;
 	margin?: number;
+	/** narrower margins and title block, for the patch sheet's rows */
+	compact?: boolean;
 }
 
 export function openSheet(options: OpenOptions): SheetDoc {
@@ -144,7 +96,8 @@ export function openSheet(options: OpenOptions): SheetDoc {
 	const landscape = options.layout === 'landscape';
 	const pageWidth = landscape ? size.height : size.width;
 	const pageHeight = landscape ? size.width : size.height;
-	const margin = options.margin ?? MARGIN;
+	const margin = options.margin ?? (options.compact ? COMPACT.margin : MARGIN);
+	const titleHeight = options.compact ? COMPACT.title : TITLE_HEIGHT;
 	const doc = new PDFDocument({
 		size: [pageWidth, pageHeight],
 		margin: 0,
@@ -168,8 +121,10 @@ export function openSheet(options: OpenOptions): SheetDoc {
 		doc.on('end', () => res(Buffer.concat(chunks)));
 		doc.on('error', rej);
 	});
-	const top = options.bare ? margin : margin + TITLE_HEIGHT + 8;
-	const bottom = options.bare ? pageHeight - margin : pageHeight - margin - FOOTER_HEIGHT;
+	const top = options.bare ? margin : margin + titleHeight + 6;
+	const bottom = options.bare
+		? pageHeight - margin
+		: pageHeight - margin - (options.compact ? COMPACT.footer : FOOTER_HEIGHT);
 	return {
 		doc,
 		top,
@@ -178,7 +133,7 @@ export function openSheet(options: OpenOptions): SheetDoc {
 		right: pageWidth - margin,
 		width: pageWidth - 2 * margin,
 		finish() {
-			if (!options.bare) stampPages(doc, options.title, margin, pageWidth, pageHeight);
+			if (!options.bare) stampPages(doc, options.title, margin, pageWidth, pageHeight, titleHeight);
 			doc.end();
 			return done;
 		}
@@ -186,7 +141,14 @@ export function openSheet(options: OpenOptions): SheetDoc {
 }
 
 /** "Page n of m" can only be known at the end, so the title block goes on every page last. */
-function stampPages(doc: Doc, title: TitleInfo, margin: number, pageWidth: number, pageHeight: number): void {
+function stampPages(
+	doc: Doc,
+	title: TitleInfo,
+	margin: number,
+	pageWidth: number,
+	pageHeight: number,
+	TITLE_HEIGHT: number
+): void {
 	const range = doc.bufferedPageRange();
 	const width = pageWidth - 2 * margin;
 	for (let i = range.start; i < range.start + range.count; i++) {
@@ -205,12 +167,13 @@ function stampPages(doc: Doc, title: TitleInfo, margin: number, pageWidth: numbe
 			lineBreak: false
 		});
 		doc.fontSize(8.5).fillColor('#000');
-		doc.text(`${title.revision} · printed ${title.printed.slice(0, 10)}`, margin + 8, y + 25, { lineBreak: false });
+		const second = y + TITLE_HEIGHT - 15;
+		doc.text(`${title.revision} · printed ${title.printed.slice(0, 10)}`, margin + 8, second, { lineBreak: false });
 		const pageText = pageLabel(i - range.start + 1, range.count);
 		doc.font(FONT_BOLD).fontSize(10);
 		doc.text(pageText, margin, y + 7, { width: width - 8, align: 'right', lineBreak: false });
 		doc.font(FONT).fontSize(8.5);
-		doc.text(`Sign-off: ${title.signoff}`, margin + width * 0.38, y + 25, {
+		doc.text(`Sign-off: ${title.signoff}`, margin + width * 0.38, second, {
 			width: width * 0.62 - 8,
 			align: 'right',
 			height: 11,
@@ -241,6 +204,11 @@ export interface Column {
 	/** share of the table width */
 	width: number;
 	align?: 'left' | 'right';
+	/**
+	 * 'wrap' (default): a cell too wide shrinks down to the style's smallest size, then wraps;
+	 * 'shrink': it stays on one line and ends in an ellipsis below the smallest size.
+	 */
+	fit?: 'wrap' | 'shrink';
 }
 
 export interface Row {
@@ -254,6 +222,8 @@ export interface Row {
 
 export interface TableStyle {
 	fontSize: number;
+	/** a cell may shrink to this size to stay on one line (no shrinking when absent) */
+	minFontSize?: number;
 	padding: number;
 	/** at most this many lines per cell; longer text ends in an ellipsis */
 	maxLines: number;
@@ -300,6 +270,13 @@ export interface Cursor {
 	y: number;
 }
 
+export interface CellFit {
+	size: number;
+	lines: number;
+	/** fits on one line at `size` (no wrapping, no ellipsis) */
+	oneLine: boolean;
+}
+
 export class Table {
 	private widths: number[];
 	private lineHeight: number;
@@ -318,21 +295,39 @@ export class Table {
 		this.lineHeight = sheet.doc.currentLineHeight(true);
 	}
 
-	rowHeight(row: Row): number {
+	/** The size a cell is drawn at and the lines it takes. */
+	cellFit(text: string, width: number, column: Column, bold = false): CellFit {
 		const doc = this.sheet.doc;
-		doc.font(row.bold ? FONT_BOLD : FONT).fontSize(this.style.fontSize);
-		let lines = 1;
-		this.columns.forEach((c, i) => {
-			const text = row.cells[c.key] ?? '';
-			const w = this.widths[i] - 2 * this.style.padding - (c.key === this.indentKey ? (row.indent ?? 0) : 0);
-			lines = Math.max(
-				lines,
-				Math.min(
-					this.style.maxLines,
-					lineCount((s) => doc.widthOfString(s), text, w)
-				)
-			);
-		});
+		const base = this.style.fontSize;
+		const min = this.style.minFontSize ?? base;
+		doc.font(bold ? FONT_BOLD : FONT).fontSize(base);
+		if (text === '') return { size: base, lines: 1, oneLine: true };
+		if (!text.includes('\n')) {
+			const w = doc.widthOfString(text);
+			if (w <= width) return { size: base, lines: 1, oneLine: true };
+			// advance widths scale with the size: the largest size that fits, in quarter points
+			const size = Math.floor(((base * width) / w) * 4) / 4;
+			if (size >= min) return { size, lines: 1, oneLine: true };
+			if (column.fit === 'shrink') return { size: min, lines: 1, oneLine: false };
+		}
+		const lines = Math.min(
+			this.style.maxLines,
+			lineCount((s) => doc.widthOfString(s), text, width)
+		);
+		return { size: base, lines, oneLine: false };
+	}
+
+	private cellWidth(i: number, row: Row): number {
+		const c = this.columns[i];
+		return this.widths[i] - 2 * this.style.padding - (c.key === this.indentKey ? (row.indent ?? 0) : 0);
+	}
+
+	private fitsOf(row: Row): CellFit[] {
+		return this.columns.map((c, i) => this.cellFit(row.cells[c.key] ?? '', this.cellWidth(i, row), c, row.bold));
+	}
+
+	rowHeight(row: Row, fits: CellFit[] = this.fitsOf(row)): number {
+		const lines = fits.reduce((n, f) => Math.max(n, f.lines), 1);
 		return lines * this.lineHeight + 2 * this.style.padding;
 	}
 
@@ -384,7 +379,9 @@ export class Table {
 
 	row(row: Row): void {
 		const doc = this.sheet.doc;
-		const h = this.rowHeight(row);
+		// each cell measured once, for the row's height and for drawing it
+		const fits = this.fitsOf(row);
+		const h = this.rowHeight(row, fits);
 		if (this.cursor.y + h > this.sheet.bottom) {
 			this.newPage(true);
 			this.header();
@@ -404,15 +401,21 @@ export class Table {
 		this.columns.forEach((c, i) => {
 			const indent = c.key === this.indentKey ? (row.indent ?? 0) : 0;
 			const text = row.cells[c.key] ?? '';
-			const width = this.widths[i] - 2 * this.style.padding - indent;
+			const width = this.cellWidth(i, row);
 			if (text !== '') {
-				// one-line cells skip pdfkit's line wrapper: most cells, most of the time
-				const oneLine = !text.includes('\n') && doc.widthOfString(text) <= width;
-				doc.text(text, x + this.style.padding + indent, y + this.style.padding, {
+				const fit = fits[i];
+				doc.fontSize(fit.size);
+				// a smaller size sits on the row's first baseline, not at the top of the cell
+				const drop = (this.style.fontSize - fit.size) * 0.75;
+				doc.text(text, x + this.style.padding + indent, y + this.style.padding + drop, {
 					width,
 					align: c.align ?? 'left',
-					...(oneLine ? { lineBreak: false } : { height: h - 2 * this.style.padding, ellipsis: true })
+					// one-line cells skip pdfkit's line wrapper: most cells, most of the time
+					...(fit.oneLine
+						? { lineBreak: false }
+						: { height: (fit.lines * this.lineHeight * fit.size) / this.style.fontSize, ellipsis: true })
 				});
+				doc.fontSize(this.style.fontSize);
 			}
 			x += this.widths[i];
 		});
@@ -425,19 +428,28 @@ export class Table {
 	}
 }
 
-/** A heading line; moves to a new page when it and `keep` points after it do not fit. */
-export function heading(sheet: SheetDoc, cursor: Cursor, text: string, size = 11, keep = 40): void {
+/**
+ * A heading line, with an optional detail in smaller type after it on the same line; moves to a
+ * new page when it and `keep` points after it do not fit.
+ */
+export function heading(sheet: SheetDoc, cursor: Cursor, text: string, size = 11, keep = 40, detail = ''): void {
 	if (cursor.y + size + 6 + keep > sheet.bottom) {
 		sheet.doc.addPage();
 		cursor.y = sheet.top;
 	}
-	sheet.doc.font(FONT_BOLD).fontSize(size).fillColor('#000');
-	sheet.doc.text(text, sheet.left, cursor.y, {
-		width: sheet.width,
-		lineBreak: false,
-		height: size * 1.4,
-		ellipsis: true
-	});
+	const doc = sheet.doc;
+	doc.font(FONT_BOLD).fontSize(size).fillColor('#000');
+	const w = Math.min(doc.widthOfString(text), sheet.width);
+	doc.text(text, sheet.left, cursor.y, { width: sheet.width, lineBreak: false, height: size * 1.4, ellipsis: true });
+	if (detail && w < sheet.width - 40) {
+		const small = Math.max(6.5, size - 2.5);
+		doc.font(FONT).fontSize(small);
+		const dw = sheet.width - w - 10;
+		const h = doc.heightOfString(detail, { width: dw });
+		doc.text(detail, sheet.left + w + 10, cursor.y + (size - small) * 0.8, { width: dw });
+		cursor.y += Math.max(size * 1.35, h + (size - small) * 0.8) + 2;
+		return;
+	}
 	cursor.y += size * 1.35 + 2;
 }
 
@@ -455,17 +467,4 @@ export function paragraph(sheet: SheetDoc, cursor: Cursor, text: string, size = 
 	}
 	doc.text(text, sheet.left, cursor.y, { width: sheet.width });
 	cursor.y += h + 2;
-}
-
-/** "the-lantern-ferry-river-unit" for file names. */
-export function slugify(name: string): string {
-	const slug = name
-		.normalize('NFKD')
-		.replace(/[\u0300-\u036f]/g, '')
-		.toLowerCase()
-		.replace(/[^a-z0-9]+/g, '-')
-		.replace(/^-+|-+$/g, '')
-		.slice(0, 60)
-		.replace(/-+$/g, '');
-	return slug || 'project';
 }

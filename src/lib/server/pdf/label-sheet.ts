@@ -1,8 +1,7 @@
 import QRCode from 'qrcode';
-import { formatSlots } from '../../patch/index';
 import type { PatchData } from '../db/patch';
 import { FONT, FONT_BOLD, MM, openSheet, pageLabel, paperSize, type Doc, type Paper, type TitleInfo } from './common';
-import { addressText, lookup, type Lookup } from './patch-sheet';
+import { lookup, parameterAddresses, rcChannelText, type Lookup } from './patch-sheet';
 
 // One label per fixture, 24 to a page (3 × 8), for the electricians: what the
 // unit must be set to, and a QR code that opens the fixture's page on a phone.
@@ -85,10 +84,12 @@ export function fixtureUrl(baseUrl: string, projectId: number, number: number): 
 	return `${baseUrl.replace(/\/+$/, '')}/projects/${projectId}/fixtures/${number}`;
 }
 
+/** The mode's bit depth(s), unless its name already says it ("HSIC 8-bit" needs no "· 8-bit"). */
 export function bitDepth(l: Lookup, f: Fixture): string {
 	const mode = l.modeById.get(f.modeId);
+	if (!mode || /\d+\s*-?\s*bit/i.test(mode.name)) return '';
 	const depths = [
-		...new Set((mode?.channels ?? []).filter((c) => c.offset !== null || f.control.kind === 'rc').map((c) => c.bits))
+		...new Set(mode.channels.filter((c) => c.offset !== null || f.control.kind === 'rc').map((c) => c.bits))
 	].sort((a, b) => a - b);
 	return depths.length ? `${depths.join('/')}-bit` : '';
 }
@@ -96,15 +97,20 @@ export function bitDepth(l: Lookup, f: Fixture): string {
 export interface LabelText {
 	number: string;
 	label: string;
+	/** what gets dialled in on the unit: address(es), or receiver and every radio channel */
 	where: string;
+	/** model · mode (· bit depth) */
 	mode: string;
 	source: string;
+	/** "Link group BANK-CHAIN", or '' */
+	link: string;
 }
 
 export function labelText(patch: PatchData, l: Lookup, f: Fixture): LabelText {
 	const universes = new Map(patch.universes.map((u) => [u.id, u]));
 	const receivers = new Map(patch.receivers.map((r) => [r.id, r]));
 	const mode = l.modeById.get(f.modeId);
+	const type = l.typeById.get(f.typeId);
 	let where: string;
 	let source: string;
 	const c = f.control;
@@ -113,7 +119,7 @@ export function labelText(patch: PatchData, l: Lookup, f: Fixture): LabelText {
 		case 'dmx-map': {
 			const u = c.universeId === null ? undefined : universes.get(c.universeId);
 			source = c.kind === 'dmx' ? 'DMX' : 'DMX, address per parameter';
-			// the start address is what gets dialled in on a dmx unit; a mapped one needs each slot
+			// the start address is what gets dialled in on a dmx unit; a mapped one needs each parameter's slot
 			if (!u) where = 'no universe';
 			else if (c.kind === 'dmx') {
 				// a multi-break mode is dialled in once per break
@@ -121,14 +127,13 @@ export function labelText(patch: PatchData, l: Lookup, f: Fixture): LabelText {
 					(b) => ` · break ${b.dmxBreak} ${universes.get(b.universeId ?? -1)?.number ?? '?'}.${b.address}`
 				);
 				where = `${u.number}.${c.address}${more.join('')}`;
-			} else where = f.slots.length ? addressText(u.number, f.slots) : `${u.number}.?`;
+			} else where = mode ? parameterAddresses(u.number, mode, c) : `${u.number}.?`;
 			break;
 		}
 		case 'rc': {
 			const r = c.receiverId === null ? undefined : receivers.get(c.receiverId);
 			source = 'RC';
-			const chans = Object.values(c.channels);
-			where = `${r ? r.name : 'no receiver'} · ch ${chans.length ? formatSlots(chans) : '–'}`;
+			where = `${r ? r.name : 'no receiver'} · ${rcChannelText(c.channels)}`;
 			break;
 		}
 		case 'follow': {
@@ -145,9 +150,56 @@ export function labelText(patch: PatchData, l: Lookup, f: Fixture): LabelText {
 		number: String(f.number),
 		label: f.label,
 		where,
-		mode: [mode?.name ?? `mode ${f.modeId}`, bitDepth(l, f)].filter(Boolean).join(' · '),
-		source
+		mode: [type?.model, mode?.name ?? `mode ${f.modeId}`, bitDepth(l, f)].filter(Boolean).join(' · '),
+		source,
+		link: f.linkGroup ? `Link group ${f.linkGroup}` : ''
 	};
+}
+
+/** One text block of a label, in the size it is drawn at. */
+export interface LabelLine {
+	text: string;
+	font: string;
+	size: number;
+	/** lines it may take before it ends in an ellipsis */
+	height: number;
+}
+
+/**
+ * Fits a label's text into its box: the number, the label, what to dial in, then the link group,
+ * the mode and the input. Everything shrinks step by step (the dial-in text from 9 pt to 5.5 pt)
+ * before anything is left out; then whole detail lines give way from the end (input first, the
+ * link group last), never the dial-in text.
+ */
+export function layoutLabel(doc: Doc, t: LabelText, width: number, height: number): LabelLine[] {
+	const measure = (text: string, font: string, size: number) => {
+		doc.font(font).fontSize(size);
+		return doc.heightOfString(text, { width });
+	};
+	const details = [t.link, t.mode, `Input: ${t.source}`].filter(Boolean);
+	const steps: [number, number, number, number][] = [
+		// [number size, label size, dial-in size, details size]
+		[18, 8.5, 9, 6.5],
+		[18, 8, 8, 6],
+		[16, 7.5, 7, 6],
+		[16, 7, 6.5, 5.5],
+		[14, 6.5, 6, 5.5],
+		[14, 6, 5.5, 5]
+	];
+	let out: LabelLine[] = [];
+	for (const [numberSize, labelSize, whereSize, detailSize] of steps) {
+		out = [
+			{ text: t.number, font: FONT_BOLD, size: numberSize, height: numberSize * 1.25 },
+			{ text: t.label, font: FONT_BOLD, size: labelSize, height: measure(t.label, FONT_BOLD, labelSize) + 1 },
+			{ text: t.where, font: FONT_BOLD, size: whereSize, height: measure(t.where, FONT_BOLD, whereSize) + 1 },
+			...details.map((text) => ({ text, font: FONT, size: detailSize, height: measure(text, FONT, detailSize) }))
+		];
+		if (out.reduce((sum, line) => sum + line.height, 0) <= height) return out;
+	}
+	// still too much at the smallest sizes: the label keeps two lines, details go from the end
+	out[1].height = Math.min(out[1].height, 2 * doc.font(FONT_BOLD).fontSize(out[1].size).currentLineHeight(true) + 1);
+	while (out.length > 3 && out.reduce((sum, line) => sum + line.height, 0) > height) out.pop();
+	return out;
 }
 
 export interface LabelOptions {
@@ -168,7 +220,10 @@ export async function renderLabelSheet(patch: PatchData, title: TitleInfo, optio
 	const perPage = grid.columns * grid.rows;
 	const pages = Math.max(1, Math.ceil(list.length / perPage));
 	const pad = 2.5 * MM;
-	const qr = grid.height - 2 * 1.5 * MM;
+	// 24 mm: about 0.7 mm a module for a fixture URL, still an easy read for a phone camera,
+	// and it leaves the text a third more width than a full-height code did
+	const qr = 24 * MM;
+	const textW = grid.width - qr - pad - 2 * MM;
 
 	const frame = (p: number) => {
 		// dashed cut lines along the grid, and what the sheet is in the bottom margin
@@ -211,26 +266,18 @@ export async function renderLabelSheet(patch: PatchData, title: TitleInfo, optio
 			frame(cell.page);
 		}
 		const t = labelText(patch, l, f);
-		const textW = grid.width - qr - pad - 1 * MM;
 		const x = cell.x + pad;
 		let y = cell.y + pad - 1;
-		doc.fillColor('#000').font(FONT_BOLD).fontSize(20);
-		doc.text(t.number, x, y, { width: textW, lineBreak: false, height: 24, ellipsis: true });
-		y += 23;
-		doc.fontSize(8.5);
-		doc.text(t.label, x, y, { width: textW, height: 21, ellipsis: true });
-		y += Math.min(21, doc.heightOfString(t.label, { width: textW })) + 1;
-		doc.font(FONT_BOLD).fontSize(9);
-		doc.text(t.where, x, y, { width: textW, height: 11, ellipsis: true, lineBreak: false });
-		y += 11.5;
-		doc.font(FONT).fontSize(6.5);
-		const rest = `${t.mode}\nInput: ${t.source}`;
-		doc.text(rest, x, y, { width: textW, height: cell.y + grid.height - y - 2, ellipsis: true });
+		for (const line of layoutLabel(doc, t, textW, grid.height - 2 * pad + 2)) {
+			doc.fillColor('#000').font(line.font).fontSize(line.size);
+			if (line.height > 0) doc.text(line.text, x, y, { width: textW, height: line.height, ellipsis: true, lineGap: 0 });
+			y += line.height;
+		}
 		drawQr(
 			doc,
 			fixtureUrl(options.baseUrl, options.projectId, f.number),
 			cell.x + grid.width - qr - 1 * MM,
-			cell.y + 1.5 * MM,
+			cell.y + (grid.height - qr) / 2,
 			qr
 		);
 	});

@@ -1,5 +1,15 @@
 import type { PowerView } from '../db/power';
-import { heading, openSheet, paragraph, Table, type Column, type Cursor, type Paper, type TitleInfo } from './common';
+import {
+	heading,
+	openSheet,
+	paragraph,
+	Table,
+	TABLE_STYLE,
+	type Column,
+	type Cursor,
+	type Paper,
+	type TitleInfo
+} from './common';
 
 // The power sheet (issue 15): for the battery tech and the electrician — each pack type with its
 // fixtures, runtimes and swap times, the shortfalls, and each circuit's load against its breaker.
@@ -72,13 +82,14 @@ export async function renderPowerSheet(view: PowerView, title: TitleInfo, paper:
 			`${air} Charging: ${pack.chargeHours ? `${pack.chargeHours} h on ${pack.chargerSlots} bays` : 'none planned during the day'}.`,
 			8
 		);
-		for (const w of pack.warnings) paragraph(sheet, cursor, `! ${w.code}: ${w.message}`, 8, true);
+		for (const w of pack.warnings) paragraph(sheet, cursor, `! ${w.message}`, 8, true);
 		if (pack.fixtures.length === 0) {
 			paragraph(sheet, cursor, 'No fixtures on this pack type.', 8);
 			cursor.y += 8;
 			continue;
 		}
-		const table = new Table(sheet, PACK_COLUMNS, cursor, undefined, caption);
+		// every swap time prints: a long day of short packs wraps onto more lines instead of an ellipsis
+		const table = new Table(sheet, PACK_COLUMNS, cursor, { ...TABLE_STYLE, maxLines: 12 }, caption);
 		table.start();
 		for (const f of pack.fixtures) {
 			const events = p.day.timeline.find((t) => t.fixtureId === f.fixtureId)?.events ?? [];
@@ -120,7 +131,7 @@ export async function renderPowerSheet(view: PowerView, title: TitleInfo, paper:
 		}
 		cursor.y += 6;
 		for (const c of p.circuits)
-			for (const w of c.warnings) paragraph(sheet, cursor, `! ${c.name} — ${w.code}: ${w.message}`, 8, true);
+			for (const w of c.warnings) paragraph(sheet, cursor, `! ${c.name}: ${w.message}`, 8, true);
 	}
 	return sheet.finish();
 }

@@ -1,21 +1,33 @@
 import type { RequestEvent } from '@sveltejs/kit';
-import { ApiError } from '../api';
 import { requireRole } from '../authz';
 import { publicBaseUrl } from '../config';
-import { PAPERS, slugify, type Paper, type TitleInfo } from './common';
-import { loadSheetData, type SheetData } from './data';
+import { loadPower } from '../db/power';
+import { getProject } from '../db/projects';
+import { downloadName } from '../download-name';
+import { InvalidError, NotFoundError } from '../errors';
 import { runJob } from '../workers/pool';
+import type { Task } from '../workers/tasks';
+import { PAPERS, type Paper, type TitleInfo } from './common';
+import { loadSheetData, type SheetData } from './data';
 
-// GET …/sheets/{patch,labels,radio}.pdf. Any member may print any sheet: every
-// role may read the whole patch (DESIGN "Roles"), and a sheet shows nothing more.
+// The one module behind every printed sheet: GET …/sheets/{patch,labels,radio,power}.pdf and the
+// review link's sheets. Any member may print any sheet: every role may read the whole patch
+// (DESIGN "Roles"), and a sheet shows nothing more. Rendering runs in a worker thread.
 
-export type SheetKind = 'patch' | 'labels' | 'radio';
+export type SheetKind = 'patch' | 'labels' | 'radio' | 'power';
+/** The sheets a revision holds (packs and circuits are not part of a revision snapshot). */
+export type PatchSheetKind = Exclude<SheetKind, 'power'>;
 
-const SHEET_TITLE: Record<SheetKind, string> = { patch: 'Patch sheet', labels: 'Labels', radio: 'Radio sheet' };
+const SHEET_TITLE: Record<SheetKind, string> = {
+	patch: 'Patch sheet',
+	labels: 'Labels',
+	radio: 'Radio sheet',
+	power: 'Power sheet'
+};
 
 function positiveInt(value: string, what: string): number {
 	if (!/^\d{1,9}$/.test(value) || Number(value) < 1)
-		throw new ApiError(400, `${what} must be a whole number of 1 or more, not "${value}".`);
+		throw new InvalidError(`${what} must be a whole number of 1 or more, not "${value}".`);
 	return Number(value);
 }
 
@@ -23,17 +35,25 @@ export interface SheetQuery {
 	revision?: number;
 	paper: Paper;
 	fixtures?: number[];
+	/** patch sheet: every DMX parameter at its universe.address (`?channels=absolute`) */
+	absolute?: boolean;
 }
 
 export function parseSheetQuery(params: URLSearchParams, kind: SheetKind): SheetQuery {
 	const revision = params.get('revision');
 	const paper = (params.get('paper') ?? 'a4').toLowerCase();
-	if (!PAPERS.includes(paper as Paper)) throw new ApiError(400, `paper must be a4 or letter, not "${paper}".`);
+	if (!PAPERS.includes(paper as Paper)) throw new InvalidError(`paper must be a4 or letter, not "${paper}".`);
+	if (revision !== null && kind === 'power')
+		throw new InvalidError('The power sheet prints the current plan: packs and circuits are not part of a revision.');
 	const fixtures = params.get('fixtures');
 	if (fixtures !== null && kind !== 'labels')
-		throw new ApiError(400, 'fixtures= chooses labels; the other sheets print the whole patch.');
+		throw new InvalidError('fixtures= chooses labels; the other sheets print the whole patch.');
+	const channels = params.get('channels');
+	if (channels !== null && (kind !== 'patch' || !['offsets', 'absolute'].includes(channels)))
+		throw new InvalidError('channels= is offsets or absolute, and only for the patch sheet.');
 	return {
 		paper: paper as Paper,
+		...(channels === 'absolute' ? { absolute: true } : {}),
 		...(revision !== null ? { revision: positiveInt(revision, 'revision') } : {}),
 		...(fixtures !== null
 			? {
@@ -61,7 +81,7 @@ export function sheetTitle(kind: SheetKind, data: SheetData): TitleInfo {
 }
 
 export function sheetFileName(kind: SheetKind, projectName: string, revision: number | null): string {
-	return `${slugify(projectName)}-${kind}-${revision === null ? 'draft' : `r${revision}`}.pdf`;
+	return downloadName(projectName, `${kind}-${revision === null ? 'draft' : `r${revision}`}`, 'pdf');
 }
 
 /** A member prints the live patch or any revision of their project. */
@@ -72,31 +92,8 @@ export async function sheetResponse(event: RequestEvent, kind: SheetKind): Promi
 
 /** Renders one sheet after the caller's access to `query.revision` (or the live patch) is settled. */
 export async function renderSheet(projectId: number, kind: SheetKind, query: SheetQuery): Promise<Response> {
-	const data = loadSheetData(projectId, query.revision);
-	if (query.fixtures) {
-		const known = new Set(data.patch.fixtures.map((f) => f.number));
-		const unknown = query.fixtures.filter((n) => !known.has(n));
-		if (unknown.length)
-			throw new ApiError(
-				400,
-				`No fixture numbered ${unknown.join(', ')} in this ${data.revision ? 'revision' : 'patch'}.`
-			);
-		if (query.fixtures.length === 0) throw new ApiError(400, 'Choose at least one fixture number.');
-	}
-	const title = sheetTitle(kind, data);
-	// rendering runs in a worker thread: a 5,000-label sheet must not hold up anyone else's request
-	const pdf = await runJob<Uint8Array>(
-		{
-			kind: 'pdf',
-			sheet: kind,
-			patch: data.patch,
-			title,
-			paper: query.paper,
-			...(kind === 'labels' ? { labels: { baseUrl: publicBaseUrl(), projectId, numbers: query.fixtures } } : {})
-		},
-		`Printing the ${SHEET_TITLE[kind].toLowerCase()}`
-	);
-	const name = sheetFileName(kind, data.patch.project.name, data.revision?.number ?? null);
+	const { task, name } = kind === 'power' ? powerTask(projectId, query) : patchTask(projectId, kind, query);
+	const pdf = await runJob<Uint8Array>(task, `Printing the ${SHEET_TITLE[kind].toLowerCase()}`);
 	return new Response(new Uint8Array(pdf), {
 		headers: {
 			'content-type': 'application/pdf',
@@ -105,4 +102,49 @@ export async function renderSheet(projectId: number, kind: SheetKind, query: She
 			'cache-control': 'private, no-store'
 		}
 	});
+}
+
+function patchTask(projectId: number, kind: PatchSheetKind, query: SheetQuery): { task: Task; name: string } {
+	const data = loadSheetData(projectId, query.revision);
+	if (query.fixtures) {
+		const known = new Set(data.patch.fixtures.map((f) => f.number));
+		const unknown = query.fixtures.filter((n) => !known.has(n));
+		if (unknown.length)
+			throw new InvalidError(
+				`No fixture numbered ${unknown.join(', ')} in this ${data.revision ? 'revision' : 'patch'}.`
+			);
+		if (query.fixtures.length === 0) throw new InvalidError('Choose at least one fixture number.');
+	}
+	return {
+		task: {
+			kind: 'pdf',
+			sheet: kind,
+			patch: data.patch,
+			title: sheetTitle(kind, data),
+			paper: query.paper,
+			...(kind === 'patch' ? { patchOptions: { absolute: query.absolute ?? false } } : {}),
+			...(kind === 'labels' ? { labels: { baseUrl: publicBaseUrl(), projectId, numbers: query.fixtures } } : {})
+		},
+		name: sheetFileName(kind, data.patch.project.name, data.revision?.number ?? null)
+	};
+}
+
+function powerTask(projectId: number, query: SheetQuery): { task: Task; name: string } {
+	const project = getProject(projectId);
+	if (!project) throw new NotFoundError('No such project.');
+	return {
+		task: {
+			kind: 'power-pdf',
+			power: loadPower(projectId),
+			paper: query.paper,
+			title: {
+				sheet: SHEET_TITLE.power,
+				project: project.name,
+				revision: 'Draft — current plan, not a revision',
+				printed: new Date().toISOString(),
+				signoff: 'none (a power plan is not part of a revision)'
+			}
+		},
+		name: sheetFileName('power', project.name, null)
+	};
 }

@@ -5,10 +5,13 @@ import { parseGdtf } from '../import/gdtf';
 import { checkBackupBytes } from '../import/json-check';
 import { decodeSpreadsheet } from '../import/limits';
 import { renderLabelSheet, type LabelOptions } from '../pdf/label-sheet';
-import { renderPatchSheet } from '../pdf/patch-sheet';
+import { renderPatchSheet, type PatchSheetOptions } from '../pdf/patch-sheet';
 import { renderRadioSheet } from '../pdf/radio-sheet';
 import type { Paper, TitleInfo } from '../pdf/common';
 import type { PatchData } from '../db/patch';
+import type { PowerView } from '../db/power';
+import { renderPowerSheet } from '../pdf/power-sheet';
+import type { PatchSheetKind } from '../pdf/respond';
 
 // What runs in the worker threads (pool.ts): the CPU-heavy, I/O-free steps of imports, backup checks and
 // printed sheets. Plain data in, plain data out; only a CSV import opens the database (its own
@@ -21,12 +24,14 @@ export type Task =
 	| { kind: 'json-backup'; bytes: Uint8Array }
 	| {
 			kind: 'pdf';
-			sheet: 'patch' | 'labels' | 'radio';
+			sheet: PatchSheetKind;
 			patch: PatchData;
 			title: TitleInfo;
 			paper: Paper;
 			labels?: Omit<LabelOptions, 'paper'>;
-	  };
+			patchOptions?: PatchSheetOptions;
+	  }
+	| { kind: 'power-pdf'; power: PowerView; title: TitleInfo; paper: Paper };
 
 /** A refusal crosses the thread boundary as data and is thrown again on the main thread. */
 export interface Refusal {
@@ -62,10 +67,14 @@ async function run(task: Task): Promise<unknown> {
 		case 'pdf': {
 			const pdf =
 				task.sheet === 'patch'
-					? await renderPatchSheet(task.patch, task.title, task.paper)
+					? await renderPatchSheet(task.patch, task.title, task.paper, task.patchOptions)
 					: task.sheet === 'radio'
 						? await renderRadioSheet(task.patch, task.title, task.paper)
 						: await renderLabelSheet(task.patch, task.title, { paper: task.paper, ...task.labels! });
+			return new Uint8Array(pdf.buffer, pdf.byteOffset, pdf.byteLength);
+		}
+		case 'power-pdf': {
+			const pdf = await renderPowerSheet(task.power, task.title, task.paper);
 			return new Uint8Array(pdf.buffer, pdf.byteOffset, pdf.byteLength);
 		}
 	}

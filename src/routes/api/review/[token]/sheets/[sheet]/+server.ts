@@ -1,14 +1,15 @@
 import { api, ApiError } from '$lib/server/api';
-import { parseSheetQuery, renderSheet, type SheetKind } from '$lib/server/pdf/respond';
+import { parseSheetQuery, renderSheet, type PatchSheetKind } from '$lib/server/pdf/respond';
 import { resolveToken } from '$lib/server/review';
 import type { RequestHandler } from './$types';
 
-const SHEETS: Record<string, SheetKind> = { 'patch.pdf': 'patch', 'labels.pdf': 'labels', 'radio.pdf': 'radio' };
+const SHEETS: Record<string, PatchSheetKind> = { 'patch.pdf': 'patch', 'labels.pdf': 'labels', 'radio.pdf': 'radio' };
 
 // A review-link holder prints the sheets of the link's revision and no other:
 // a ?revision= in the query is ignored in favour of the token's own.
 export const GET: RequestHandler = api((event) => {
-	const kind = SHEETS[event.params.sheet];
+	// own keys only: a sheet named constructor or __proto__ is no sheet
+	const kind = Object.hasOwn(SHEETS, event.params.sheet) ? SHEETS[event.params.sheet] : undefined;
 	if (!kind) throw new ApiError(404, 'No such sheet: use patch.pdf, labels.pdf or radio.pdf.');
 	const { revision } = resolveToken(event);
 	const query = parseSheetQuery(event.url.searchParams, kind);
