@@ -165,6 +165,20 @@ describe('the control drawer', () => {
 		expect(await page.evaluate(() => (document.activeElement as HTMLElement).dataset.col)).toBe('control');
 	});
 
+	it.each(['light', 'dark', 'dim'])('%s theme: the open drawer and the conflict fixes pass axe', async (theme) => {
+		const page = await newPage(stage.browser, 1440, 900);
+		await signIn(page, stage.server.url, 'programmer@demo.test');
+		await page.context().addCookies([{ name: 'pw-theme', value: theme, url: stage.server.url }]);
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
+		await patchRows(page);
+		await page.locator('[data-quick-fix]').first().waitFor();
+		expect(await axeViolations(page, '[data-conflict-list]')).toEqual([]);
+		await show(page, 'QUAY PUCK');
+		await openDrawer(page, 141);
+		expect(await axeViolations(page, '[data-control-drawer]')).toEqual([]);
+		await page.screenshot({ path: `test-results/screenshots/control-drawer-${theme}.png` });
+	});
+
 	it('on a phone the drawer is a full-width sheet', async () => {
 		const page = await newPage(stage.browser, 390, 844, true);
 		await signIn(page, stage.server.url, 'programmer@demo.test');
