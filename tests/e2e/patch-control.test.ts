@@ -179,6 +179,36 @@ describe('the control drawer', () => {
 		await page.screenshot({ path: `test-results/screenshots/control-drawer-${theme}.png` });
 	});
 
+	it('shows a change by someone else while open, and refuses to save over it until asked', async () => {
+		const page = await desk();
+		await show(page, 'QUAY BALL 4');
+		const d = await openDrawer(page, 140);
+		await d.getByLabel('Address', { exact: true }).fill('4.200');
+		// another programmer renames 140 through the API (its own context, its own session)
+		const other = await newPage(stage.browser);
+		await signIn(other, stage.server.url, 'programmer@demo.test');
+		const status = await other.evaluate(async (pid) => {
+			const list = await (await fetch(`/api/projects/${pid}/fixtures`)).json();
+			const f = list.fixtures.find((x: { number: number }) => x.number === 140);
+			const res = await fetch(`/api/projects/${pid}/fixtures/${f.id}`, {
+				method: 'PATCH',
+				headers: { 'content-type': 'application/json' },
+				body: JSON.stringify({ label: 'QUAY BALL FOUR', version: f.version })
+			});
+			return res.status;
+		}, pid);
+		expect(status).toBe(200);
+		await d.locator('[data-changed-elsewhere]').waitFor({ timeout: 5000 });
+		// what was typed is kept
+		expect(await d.getByLabel('Address', { exact: true }).inputValue()).toBe('4.200');
+		await d.getByRole('button', { name: 'Save control' }).click();
+		await d.getByText('Nothing was saved').waitFor();
+		await d.getByRole('button', { name: 'Start again from theirs' }).last().click();
+		expect(await d.getByLabel('Address', { exact: true }).inputValue()).toBe('7');
+		await save(page, 140);
+		await other.close();
+	});
+
 	it('on a phone the drawer is a full-width sheet', async () => {
 		const page = await newPage(stage.browser, 390, 844, true);
 		await signIn(page, stage.server.url, 'programmer@demo.test');

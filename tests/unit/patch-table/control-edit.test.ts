@@ -140,6 +140,39 @@ describe('buildControl', () => {
 	});
 });
 
+describe('a mode with two DMX breaks (DIN SPEC 15800 DMXBreak)', () => {
+	it('gets a row per further break, sent as breaks with their own universe and address', () => {
+		const TWO = {
+			id: 12,
+			name: 'Pixel 2-break',
+			slots: 2,
+			channels: [
+				{ offset: 1, parameter: 'intensity', bits: 8 as const, default: 0 },
+				{ offset: 2, parameter: 'cct', bits: 8 as const, default: 0 },
+				{ offset: 1, parameter: 'red', bits: 8 as const, default: 0, dmxBreak: 2 },
+				{ offset: 2, parameter: 'green', bits: 8 as const, default: 0, dmxBreak: 2 },
+				{ offset: 3, parameter: 'blue', bits: 8 as const, default: 0, dmxBreak: 2 }
+			]
+		};
+		const f = fx(201, dmx(1, 1), { modeId: 12, typeId: 3 });
+		const p = patchOf([f]);
+		p.types.push({ id: 3, maker: 'M', model: 'Pixel', notes: '', version: 1, modes: [TWO] });
+		const form = formFor(p, f);
+		expect(form.breaks).toEqual([{ dmxBreak: 2, slots: 3, universe: '1', address: '' }]);
+		form.breaks[0].universe = '4';
+		form.breaks[0].address = '511';
+		const refused = buildControl(p, f, form);
+		expect(!refused.ok && refused.errors['break-2-address']).toBe(
+			'Break 2 needs 3 slots; the last start that fits is 510.'
+		);
+		form.breaks[0].address = '10';
+		expect(buildControl(p, f, form)).toEqual({
+			ok: true,
+			control: { kind: 'dmx', universeId: 1, address: 1, breaks: [{ dmxBreak: 2, universeId: 2, address: 10 }] }
+		});
+	});
+});
+
 describe('follow', () => {
 	it('refuses itself, a follower (naming its leader), a loop, and a leader of others', () => {
 		const leader = fx(101, dmx(1, 1));
