@@ -276,6 +276,39 @@ describe('link groups and quick fixes', () => {
 		expect(fixes[0].changes).toEqual([{ id: b.id, version: 1, control: { kind: 'dmx', universeId: 1, address: 31 } }]);
 	});
 
+	it('offers a smaller mode of the same type when it fits where the fixture is', () => {
+		const SMALL = {
+			id: 13,
+			name: 'Dimmer 8-bit',
+			slots: 1,
+			channels: [{ offset: 1, parameter: 'intensity', bits: 8 as const, default: 0 }]
+		};
+		const a = fx(101, dmx(1, 1), { modeId: 11 }); // 1–2
+		const b = fx(102, dmx(1, 3), { modeId: 11 }); // 3–4
+		const c = fx(103, dmx(1, 511), { modeId: 11 }); // 511–512
+		const d = fx(104, dmx(1, 2), { modeId: 11 }); // 2–3: overlaps both
+		const p = patchOf([a, b, c, d]);
+		p.types[1].modes.push(SMALL);
+		const fixes = quickFixesFor(
+			p,
+			{ kind: 'overlap', severity: 'error', fixtureIds: [a.id, d.id], message: '' },
+			new Map(p.fixtures.map((f) => [f.id, f]))
+		);
+		// 104 at 2 in one slot still overlaps 101's slot 2, so no mode fix; the move goes to 5–6
+		expect(fixes.map((f) => f.label)).toEqual(['Move 104 to next free address 1.5', 'Set 104 to manual']);
+		const e = fx(105, dmx(1, 4), { modeId: 11 }); // 4–5 overlaps 102's 4
+		const p2 = patchOf([a, c, e, fx(106, dmx(1, 5), { modeId: 11 })]); // 5–6
+		p2.types[1].modes.push(SMALL);
+		const fixes2 = quickFixesFor(
+			p2,
+			{ kind: 'overlap', severity: 'error', fixtureIds: [e.id], message: '' },
+			new Map(p2.fixtures.map((f) => [f.id, f]))
+		);
+		expect(fixes2.find((f) => f.label === 'Change 105 to mode Dimmer 8-bit')?.changes).toEqual([
+			{ id: e.id, version: 1, modeId: 13 }
+		]);
+	});
+
 	it('offers to link a shared address under a fresh group name', () => {
 		const a = fx(101, dmx(1, 1));
 		const b = fx(102, dmx(1, 1));

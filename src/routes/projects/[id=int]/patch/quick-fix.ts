@@ -1,6 +1,7 @@
 import type { Conflict } from '$lib/patch';
 import type { PatchData } from '$lib/shapes';
-import { freshGroupName, linkProblem, nextFreeAddress } from './control-edit';
+import { modeSlotCount } from '$lib/patch';
+import { freshGroupName, linkProblem, nextFreeAddress, usedSlots } from './control-edit';
 
 // One-click fixes offered beside a conflict. Each says in its label what it will change, so the
 // button is its own preview; `changes` is the bulk PATCH body it sends (with each row's version).
@@ -34,6 +35,29 @@ function moveFix(p: PatchData, f: Fx): QuickFix | null {
 	};
 }
 
+/** Another mode of the same type that fits where the fixture is now (fewer slots), if one does. */
+function modeFix(p: PatchData, f: Fx): QuickFix | null {
+	const c = f.control;
+	if (c.kind !== 'dmx' || c.universeId == null || c.breaks?.length) return null;
+	const type = p.types.find((t) => t.id === f.typeId);
+	const used = usedSlots(p, c.universeId, f.id);
+	for (const m of type?.modes ?? []) {
+		if (m.id === f.modeId || m.breaks?.length) continue;
+		const n = modeSlotCount(m);
+		const end = c.address + n - 1;
+		if (end > 512) continue;
+		let free = true;
+		for (let s = c.address; s <= end && free; s++) free = !used.has(s);
+		if (!free) continue;
+		return {
+			label: `Change ${f.number} to mode ${m.name}`,
+			preview: `Fixture ${f.number} stays at ${at(p, c.universeId, c.address)} and takes ${n} slots (${c.address}–${end}) instead of ${f.footprint ?? '?'}.`,
+			changes: [{ id: f.id, version: f.version, modeId: m.id }]
+		};
+	}
+	return null;
+}
+
 function manualFix(f: Fx): QuickFix {
 	return {
 		label: `Set ${f.number} to manual`,
@@ -54,6 +78,8 @@ export function quickFixesFor(p: PatchData, c: Conflict, byId: Map<number, Fx>):
 		case 'out-of-range': {
 			const move = moveFix(p, last);
 			if (move) fixes.push(move);
+			const mode = modeFix(p, last);
+			if (mode) fixes.push(mode);
 			fixes.push(manualFix(last));
 			break;
 		}
