@@ -66,7 +66,7 @@ export function buildRows(p: PatchData, hidden: ReadonlySet<number>): RowView[] 
 	const l = lookups(p);
 	const byFixture = conflictsByFixture(p.conflicts);
 	const rows: RowView[] = [];
-	for (const f of p.fixtures) {
+	for (const f of followersUnderLeaders(p.fixtures)) {
 		if (hidden.has(f.id)) continue;
 		const c = f.control;
 		const uId = c.kind === 'dmx' || c.kind === 'dmx-map' ? c.universeId : null;
@@ -160,4 +160,35 @@ export const EDITABLE = new Set(['label', 'typeMode', 'control']);
 
 export function globalFilterFn(row: R, _id: string, value: string): boolean {
 	return row.original.haystack.includes(String(value).toLowerCase());
+}
+
+/**
+ * Fixture order with each follower right under its leader (DESIGN.md: a follower "is listed under
+ * its leader"); everything else keeps the API's fixture-number order. A follower whose leader is
+ * missing, or itself a follower, stays where it is.
+ */
+export function followersUnderLeaders<T extends { id: number; control: PatchFixtureView['control'] }>(
+	list: readonly T[]
+): T[] {
+	const byId = new Map(list.map((f) => [f.id, f]));
+	const under = new Map<number, T[]>();
+	for (const f of list)
+		// only under a leader that leads: a cycle (A follows B follows A) keeps number order
+		if (
+			f.control.kind === 'follow' &&
+			byId.get(f.control.leaderId)?.control.kind !== 'follow' &&
+			byId.has(f.control.leaderId)
+		) {
+			const l = under.get(f.control.leaderId);
+			if (l) l.push(f);
+			else under.set(f.control.leaderId, [f]);
+		}
+	if (!under.size) return list as T[];
+	const out: T[] = [];
+	for (const f of list) {
+		if (f.control.kind === 'follow' && under.get(f.control.leaderId)?.includes(f)) continue;
+		out.push(f);
+		for (const x of under.get(f.id) ?? []) out.push(x);
+	}
+	return out;
 }
