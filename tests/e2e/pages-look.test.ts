@@ -32,12 +32,22 @@ describe('building-block pages, looked at', () => {
 				await page.getByRole('button', { name: 'Save type' }).waitFor();
 				expect(await page.locator('[data-slot-count]').count()).toBeGreaterThan(0);
 				await screenshot(page, `types-${size.name}-${mode}`);
+				// the editor as the eye meets it: one screen, scrolled to the first mode
+				await page.locator('[data-mode="1"]').first().scrollIntoViewIfNeeded();
+				await page.screenshot({ path: `test-results/screenshots/types-editor-${size.name}-${mode}.png` });
 				await page.goto(`${stage.server.url}/projects/${pid}/universes`);
 				await page.getByRole('heading', { name: 'Universes' }).waitFor();
 				await screenshot(page, `universes-${size.name}-${mode}`);
 				await page.goto(`${stage.server.url}/projects/${pid}/radio`);
 				await page.getByRole('heading', { level: 1 }).waitFor();
 				await screenshot(page, `radio-${size.name}-${mode}`);
+				// a restore preview of the demo's own backup; nothing is created by choosing the file
+				const backup = await (await page.request.get(`${stage.server.url}/api/projects/${pid}/export.json`)).body();
+				await page.goto(`${stage.server.url}/projects/${pid}/import`);
+				await page.setInputFiles('#restore-file', { name: 'demo.json', mimeType: 'application/json', buffer: backup });
+				await page.getByTestId('restore-preview').getByText('(restored').waitFor();
+				await page.getByTestId('restore-preview').scrollIntoViewIfNeeded();
+				await page.screenshot({ path: `test-results/screenshots/restore-preview-${size.name}-${mode}.png` });
 				await page.close();
 			}
 		}
