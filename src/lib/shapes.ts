@@ -131,3 +131,16 @@ export interface ReviewLinkShape {
 	revokedAt: string | null;
 	status: 'active' | 'expired' | 'revoked';
 }
+
+/** What restoring a backup would create (`POST /api/projects/import-json?preview=true`); nothing is written. */
+export interface BackupPreview {
+	ok: boolean;
+	/** the project's name in the file ('' when it could not be read) */
+	name: string;
+	/** the name the restored project gets: "<name> (restored <date>)" */
+	restoredName: string;
+	counts: { universes: number; types: number; modes: number; fixtures: number; receivers: number };
+	/** a sentence for the whole file when it cannot be restored */
+	message: string;
+	problems: { field: string; message: string }[];
+}

@@ -1,3 +1,4 @@
+import { and, eq } from 'drizzle-orm';
 import type { Db } from '../../src/lib/server/db/index';
 import { fixtureTypes, fixtures, modeChannels, modes, receivers, universes } from '../../src/lib/server/db/schema';
 
@@ -20,7 +21,18 @@ export function makeUniverse(db: Db, projectId: number, number: number, transpor
 
 /** A type with named modes; returns the type row and its modes' ids by name. */
 export function makeType(db: Db, projectId: number, modeSpecs: Record<string, ChannelSpec[]>, model = 'Test Panel') {
-	const type = db.insert(fixtureTypes).values({ projectId, maker: 'Testworks', model }).returning().get();
+	// maker + model is unique per project (migration 0004): a second default type becomes "Test Panel 2"
+	const taken = new Set(
+		db
+			.select({ model: fixtureTypes.model })
+			.from(fixtureTypes)
+			.where(and(eq(fixtureTypes.projectId, projectId), eq(fixtureTypes.maker, 'Testworks')))
+			.all()
+			.map((t) => t.model.toLowerCase())
+	);
+	let free = model;
+	for (let n = 2; taken.has(free.toLowerCase()); n++) free = `${model} ${n}`;
+	const type = db.insert(fixtureTypes).values({ projectId, maker: 'Testworks', model: free }).returning().get();
 	const modeIds: Record<string, number> = {};
 	Object.entries(modeSpecs).forEach(([name, channels], position) => {
 		const mode = db.insert(modes).values({ typeId: type.id, name, position }).returning().get();

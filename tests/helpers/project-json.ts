@@ -16,8 +16,13 @@ export function normaliseExport(
 	const f = new Map(doc.fixtures.map((x) => [x.id, x.number]));
 	const { exportedAt, ...rest } = doc;
 	if (typeof exportedAt !== 'string') throw new Error('exportedAt missing');
+	// a restored copy is named "<name> (restored <date>)" (issue 16); the rest must be identical
+	const project = rest.project as { name?: string } | undefined;
 	return {
 		...rest,
+		...(project
+			? { project: { ...project, name: project.name?.replace(/ \(restored \d{4}-\d{2}-\d{2}\)$/, '') } }
+			: {}),
 		universes: doc.universes.map((x) => ({ ...x, id: u.get(x.id) })),
 		types: doc.types.map((x) => ({ ...x, id: t.get(x.id), modes: x.modes.map((mm) => ({ ...mm, id: m.get(mm.id) })) })),
 		receivers: doc.receivers.map((x) => ({ ...x, id: r.get(x.id) })),

@@ -153,3 +153,17 @@ export const typePatch = z.strictObject({
 export type ModeInput = z.output<typeof modeInput>;
 export type TypeCreate = z.output<typeof typeCreate>;
 export type TypePatch = z.output<typeof typePatch>;
+
+/**
+ * Moving the fixtures that use a mode (or a type) to another mode before it is deleted: the
+ * fixtures are the ones the page showed, each with the version read, so a fixture changed or
+ * added meanwhile refuses the delete instead of being moved unseen.
+ */
+export const fixtureMove = z.strictObject({
+	toModeId: z.int({ message: 'Pick the mode to move them to.' }).positive('Pick the mode to move them to.'),
+	fixtures: z
+		.array(z.strictObject({ id: z.int().positive(), version: z.int().positive() }))
+		.min(1)
+		.max(5000)
+});
+export type FixtureMove = z.output<typeof fixtureMove>;

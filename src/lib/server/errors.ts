@@ -154,3 +154,19 @@ export class InsufficientStorageError extends DomainError {
 	readonly status = 507;
 	protected readonly kind = 'insufficient-storage';
 }
+
+/**
+ * A worker job's refusal or budget stop, carried back across the thread boundary with the status
+ * the worker's own error had (413/415/422…), so code below the routes (a restore preview) can
+ * catch it like any other domain error.
+ */
+export class JobRefusedError extends DomainError {
+	protected readonly kind = 'refused';
+	constructor(
+		readonly status: number,
+		message: string,
+		detail: ErrorDetail = {}
+	) {
+		super(message, detail);
+	}
+}

@@ -4,7 +4,8 @@ import { DuplicateError, InUseError, InvalidError, NotFoundError, StaleVersionEr
 import { db } from './index';
 import { listTypes, type TypeShape } from './patch';
 import { fixtureTypes, fixtures, modeChannels, modes } from './schema';
-import type { ModeInput, TypeCreate, TypePatch } from '../../schemas/type';
+import { updateFixtures } from './fixtures';
+import type { FixtureMove, ModeInput, TypeCreate, TypePatch } from '../../schemas/type';
 
 export function getType(projectId: number, id: number): TypeShape | undefined {
 	return listTypes(projectId, [id])[0];
@@ -193,5 +194,79 @@ export function deleteType(projectId: number, userId: string, id: number): void 
 		}
 		db().delete(fixtureTypes).where(eq(fixtureTypes.id, id)).run();
 		recordAudit({ projectId, userId, action: 'type.delete', entity: 'fixture_type', entityId: id, before });
+	});
+}
+
+/** Moves the listed fixtures to another mode (of this or another type) in one batch; any stale version refuses all. */
+export function moveFixtures(projectId: number, userId: string, move: FixtureMove): number[] {
+	const target = listTypes(projectId).find((t) => t.modes.some((m) => m.id === move.toModeId));
+	if (!target)
+		throw new InvalidError('No such mode in this project.', [
+			{ path: ['toModeId'], message: 'Pick a mode of this project.' }
+		]);
+	return updateFixtures(
+		projectId,
+		userId,
+		move.fixtures.map((f) => ({ id: f.id, version: f.version, typeId: target.id, modeId: move.toModeId }))
+	).map((f) => f.id);
+}
+
+/** A saved mode as the API's mode input, so a type can be written back without one of its modes. */
+function modeInputOf(m: TypeShape['modes'][number]): ModeInput {
+	return {
+		id: m.id,
+		name: m.name,
+		channels: m.channels.map((c) => ({ ...c, fineOffsets: c.fineOffsets ? [...c.fineOffsets] : undefined })),
+		watts: m.watts ?? null,
+		inputVolts: m.inputVolts ?? null
+	};
+}
+
+/**
+ * Deletes one mode of a type, first moving the fixtures that use it when `move` is given — all in
+ * one transaction, so a refused move leaves the mode and its fixtures as they were.
+ */
+export function deleteMode(
+	projectId: number,
+	userId: string,
+	typeId: number,
+	version: number,
+	modeId: number,
+	move?: FixtureMove
+): TypeShape {
+	return db().transaction(() => {
+		requireRow(projectId, typeId);
+		const before = getType(projectId, typeId)!;
+		if (!before.modes.some((m) => m.id === modeId)) throw new NotFoundError('No such mode of this fixture type.');
+		if (before.modes.length === 1)
+			throw new InvalidError('A type needs at least one mode; delete the type instead.', [
+				{ path: ['modes'], message: 'A type needs at least one mode.' }
+			]);
+		if (move) {
+			if (move.toModeId === modeId)
+				throw new InvalidError('Pick another mode to move them to.', [
+					{ path: ['toModeId'], message: 'Pick another mode.' }
+				]);
+			moveFixtures(projectId, userId, move);
+		}
+		return updateType(projectId, userId, typeId, {
+			version,
+			modes: before.modes.filter((m) => m.id !== modeId).map(modeInputOf)
+		});
+	});
+}
+
+/** Deletes a type, first moving the fixtures that use it to a mode of another type when `move` is given. */
+export function deleteTypeMoving(projectId: number, userId: string, id: number, move?: FixtureMove): void {
+	db().transaction(() => {
+		requireRow(projectId, id);
+		if (move) {
+			if (getType(projectId, id)!.modes.some((m) => m.id === move.toModeId))
+				throw new InvalidError('Pick a mode of another type; this one is being deleted.', [
+					{ path: ['toModeId'], message: 'Pick a mode of another type.' }
+				]);
+			moveFixtures(projectId, userId, move);
+		}
+		deleteType(projectId, userId, id);
 	});
 }

@@ -203,7 +203,12 @@ export const fixtureTypes = sqliteTable(
 		createdAt: createdAt(),
 		updatedAt: updatedAt()
 	},
-	(t) => [index('fixture_type_project').on(t.projectId)]
+	(t) => [
+		index('fixture_type_project').on(t.projectId),
+		// maker + model names one type per project whatever the case (issue 16); SQLite's lower() folds
+		// ASCII only, so db/fixture-types.ts also compares with toLocaleLowerCase before writing
+		uniqueIndex('fixture_type_maker_model').on(t.projectId, sql`lower(${t.maker})`, sql`lower(${t.model})`)
+	]
 );
 
 export const modes = sqliteTable(

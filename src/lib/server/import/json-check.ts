@@ -36,6 +36,22 @@ const envelope = z.looseObject({
 	fixtures: z.array(withId).max(20000).default([])
 });
 
+const SECTIONS = ['universes', 'types', 'fixtures'] as const;
+
+/**
+ * A file that is JSON but not a whole backup: a bare name, or a project with none of the lists an
+ * export always writes (an empty project's export still has them, empty). Answers the sentence, or ''.
+ */
+function junk(raw: unknown): string {
+	if (raw === null || typeof raw !== 'object' || Array.isArray(raw))
+		return 'This file is not a project backup: it holds no project, only a single value or a list.';
+	const o = raw as Record<string, unknown>;
+	const missing = SECTIONS.filter((k) => !Array.isArray(o[k]));
+	if (missing.length === SECTIONS.length)
+		return 'This file is not a project backup: it has no universes, fixture types or fixtures lists, which every export writes (empty ones included).';
+	return '';
+}
+
 function strip<T extends { id?: unknown }>(o: T): Omit<T, 'id'> {
 	const { id, ...rest } = o;
 	void id;
@@ -52,6 +68,8 @@ export function checkBackupBytes(bytes: Uint8Array): CheckedBackup {
 	} catch {
 		throw new InvalidError('The file is not valid JSON.', undefined, { code: 'invalid-file' });
 	}
+	const notBackup = junk(raw);
+	if (notBackup) throw new UnprocessableError(notBackup, undefined, { code: 'invalid-file' });
 	const issues: ImportIssue[] = [];
 	const add = (prefix: (string | number)[], err: z.ZodError) => {
 		for (const i of err.issues)

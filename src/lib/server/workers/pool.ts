@@ -1,7 +1,7 @@
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { Piscina } from 'piscina';
-import { ApiError } from '../api';
+import { JobRefusedError, type Issue } from '../errors';
 import type { Refusal, Task } from './tasks';
 
 // Heavy work off the request loop (DESIGN "no request can stall the server"): CSV decoding and
@@ -44,7 +44,7 @@ function isRefusal(v: unknown): v is Refusal {
 	return typeof v === 'object' && v !== null && 'refused' in v;
 }
 
-/** Runs one job in a worker; refusals come back as the ApiError they were, budgets answer 413/422. */
+/** Runs one job in a worker; refusals come back as a JobRefusedError with the worker error's status, budgets answer 413/422. */
 export async function runJob<T>(task: Task, what: string): Promise<T> {
 	let result: unknown;
 	try {
@@ -52,24 +52,27 @@ export async function runJob<T>(task: Task, what: string): Promise<T> {
 	} catch (err) {
 		const e = err as { name?: string; code?: string; message?: string };
 		if (e.name === 'AbortError' || e.name === 'TimeoutError')
-			throw new ApiError(
+			throw new JobRefusedError(
 				422,
 				`${what} took longer than ${JOB_TIME_MS / 1000} s and was stopped; nothing was written.`,
-				{
-					code: 'too-slow'
-				}
+				{ code: 'too-slow' }
 			);
 		if (e.code === 'ERR_WORKER_OUT_OF_MEMORY' || /out of memory/i.test(e.message ?? ''))
-			throw new ApiError(
+			throw new JobRefusedError(
 				413,
 				`${what} needs more than ${JOB_HEAP_MB} MB of memory and was stopped; nothing was written.`,
-				{
-					code: 'too-large'
-				}
+				{ code: 'too-large' }
 			);
 		throw err;
 	}
-	if (isRefusal(result)) throw new ApiError(result.refused.status, result.refused.message, result.refused.extra);
+	if (isRefusal(result)) {
+		const { code, issues, ...extra } = result.refused.extra ?? {};
+		throw new JobRefusedError(result.refused.status, result.refused.message, {
+			code: typeof code === 'string' ? code : undefined,
+			issues: Array.isArray(issues) ? (issues as Issue[]) : undefined,
+			extra
+		});
+	}
 	return result as T;
 }
 

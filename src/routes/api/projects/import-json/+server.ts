@@ -1,12 +1,16 @@
 import { json } from '@sveltejs/kit';
 import { api, ApiError } from '$lib/server/api';
 import { requireUser } from '$lib/server/authz';
-import { checkBackup, restoreBackup } from '$lib/server/import/json';
-import { MAX_UPLOAD_BYTES } from '$lib/server/import/limits';
+import { previewRestore, restoreRenamed } from '$lib/server/import/restore';
+import { MAX_UPLOAD_BYTES, sniff } from '$lib/server/import/limits';
 import { readCapped, readUpload } from '$lib/server/import/multipart';
 import type { RequestHandler } from './$types';
 
-/** A project export (JSON body, or multipart field `file`) becomes a NEW project owned by the caller: 201 with the project. */
+/**
+ * A project export (JSON body, or multipart field `file`) becomes a NEW project owned by the caller,
+ * named "<name> (restored <date>)": 201 with the project. With `?preview=true` nothing is written:
+ * 200 with what would be created (counts) or the problems that stop it.
+ */
 export const POST: RequestHandler = api(async (event) => {
 	const user = requireUser(event);
 	const type = event.request.headers.get('content-type') ?? '';
@@ -20,6 +24,7 @@ export const POST: RequestHandler = api(async (event) => {
 			415,
 			'Send the project export as application/json or multipart/form-data with a field named file.'
 		);
-	// decoding and checking run in a worker thread with a time and heap budget; only the writes run here
-	return json(restoreBackup(user.id, await checkBackup(bytes)), { status: 201 });
+	if (sniff(bytes) !== 'json') throw new ApiError(415, 'The file is not a JSON project export.');
+	if (event.url.searchParams.get('preview') === 'true') return json(await previewRestore(user.id, bytes));
+	return json(await restoreRenamed(user.id, bytes), { status: 201 });
 });

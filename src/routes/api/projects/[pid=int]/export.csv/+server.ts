@@ -8,7 +8,10 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = api((event) => {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
 	const name = downloadName(getProject(projectId)!.name, 'patch', 'csv');
-	return new Response(exportPatchCsv(projectId), {
+	// ?bom=true: a UTF-8 byte-order mark first, which some desktop spreadsheet programs need to read
+	// the file as UTF-8 (accents, °, µ); off by default because other tools show it as stray characters
+	const bom = event.url.searchParams.get('bom') === 'true' ? '\uFEFF' : '';
+	return new Response(bom + exportPatchCsv(projectId), {
 		headers: {
 			'content-type': 'text/csv; charset=utf-8',
 			'content-disposition': `attachment; filename="${name}"`,
