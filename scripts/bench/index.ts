@@ -4,7 +4,8 @@ import { api } from './api';
 import { engine } from './engine';
 import { load } from './load';
 import { pdf } from './pdf';
+import { requests } from './requests';
 import { table } from './table';
 import type { BenchModule } from './harness';
 
-export const modules: BenchModule[] = [engine, api, pdf, table, load];
+export const modules: BenchModule[] = [engine, api, requests, pdf, table, load];
