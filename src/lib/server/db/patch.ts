@@ -1,4 +1,5 @@
 import { asc, eq, inArray } from 'drizzle-orm';
+import { randomBytes } from 'node:crypto';
 import {
 	computePatch,
 	defaultChannelCount,
@@ -333,16 +334,24 @@ interface CacheEntry {
 	data: PatchData;
 	/** the same patch as the JSON the API sends, made on first ask */
 	json?: string;
+	/** GET …/conflicts as JSON text, made on first ask */
+	conflictsJson?: string;
 }
 
 const patchCache = new Map<number, CacheEntry>();
 const MAX_CACHED_PROJECTS = 16;
-let counter: { client: unknown; stmt: { get(): unknown } } | undefined;
+// the epoch tells one opened database from the next (counters restart), so a key names one state only
+let counter: { client: unknown; stmt: { get(): unknown }; epoch: string } | undefined;
 
 function changeKey(): string {
 	const client = db().$client;
-	if (counter?.client !== client) counter = { client, stmt: client.prepare('select total_changes()').pluck() };
-	return `${String(client.pragma('data_version', { simple: true }))}:${String(counter.stmt.get())}`;
+	if (counter?.client !== client)
+		counter = {
+			client,
+			stmt: client.prepare('select total_changes()').pluck(),
+			epoch: randomBytes(6).toString('base64url')
+		};
+	return `${counter.epoch}.${String(client.pragma('data_version', { simple: true }))}.${String(counter.stmt.get())}`;
 }
 
 function cacheEntry(projectId: number): CacheEntry {
@@ -363,9 +372,27 @@ export function loadPatchCached(projectId: number): PatchData {
 	return cacheEntry(projectId).data;
 }
 
+/** JSON text serialised once per change, and a version that changes with any committed write (an ETag's stuff). */
+export interface VersionedJson {
+	json: string;
+	version: string;
+}
+
 /** The patch as JSON text, serialised once per change: a 20,000-fixture patch is megabytes of it. */
 export function patchJsonCached(projectId: number): string {
+	return patchJsonVersioned(projectId).json;
+}
+
+/** patchJsonCached with the version it was made at. */
+export function patchJsonVersioned(projectId: number): VersionedJson {
 	const entry = cacheEntry(projectId);
 	entry.json ??= JSON.stringify(entry.data);
-	return entry.json;
+	return { json: entry.json, version: `${projectId}.${entry.key}` };
+}
+
+/** GET …/conflicts as JSON text, serialised once per change. */
+export function conflictsJsonCached(projectId: number): VersionedJson {
+	const entry = cacheEntry(projectId);
+	entry.conflictsJson ??= JSON.stringify({ conflicts: entry.data.conflicts });
+	return { json: entry.conflictsJson, version: `${projectId}.${entry.key}` };
 }
