@@ -146,7 +146,11 @@ describe('versioned JSON (ETag per write)', () => {
 		expect((JSON.parse(decoded(outside)) as PatchData).fixtures.find((f) => f.id === fixture.id)?.label).toBe(
 			'OUTSIDE WRITE'
 		);
+		// …/patch and …/conflicts change at the same writes: each keeps its own compressed copy
+		const patchGz = await raw(`/api/projects/${pid}/patch`, { 'accept-encoding': 'gzip' }, owner);
+		expect(patchGz.headers['content-encoding']).toBe('gzip');
 		const conflicts = await raw(`/api/projects/${pid}/conflicts`, { 'accept-encoding': 'gzip' }, owner);
+		expect(conflicts.headers.etag).not.toBe(patchGz.headers.etag);
 		expect(JSON.parse(decoded(conflicts))).toEqual({
 			conflicts: (JSON.parse(decoded(outside)) as PatchData).conflicts
 		});

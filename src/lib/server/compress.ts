@@ -42,7 +42,7 @@ function compress(body: Uint8Array, coding: Coding): Promise<Uint8Array> | Uint8
 }
 
 // Answers with a strong ETag (GET …/patch) are the same bytes until the next write: keep their
-// compressed form, bounded by size, keyed by tag and coding.
+// compressed form, bounded by size, keyed by coding, path and tag.
 const compressedByTag = new LRUCache<string, Uint8Array>({
 	maxSize: 32 * 1024 * 1024,
 	sizeCalculation: (v) => Math.max(1, v.byteLength)
@@ -61,7 +61,8 @@ export async function compressResponse(request: Request, response: Response): Pr
 	if (!coding) return response;
 	const headers = new Headers(response.headers);
 	const etag = response.headers.get('etag');
-	const strong = etag && !etag.startsWith('W/') ? `${coding}:${etag}` : null;
+	// the path too: two answers that change at the same writes may carry the same version
+	const strong = etag && !etag.startsWith('W/') ? `${coding} ${new URL(request.url).pathname} ${etag}` : null;
 	let packed = strong ? compressedByTag.get(strong) : undefined;
 	if (!packed) {
 		const body = new Uint8Array(await response.arrayBuffer());
@@ -76,5 +77,9 @@ export async function compressResponse(request: Request, response: Response): Pr
 	headers.set('content-length', String(packed.byteLength));
 	// a compressed body is another representation: its tag says which (http-cache.ts matches both)
 	if (etag && !etag.startsWith('W/')) headers.set('etag', etag.replace(/"$/, coding === 'br' ? '-br"' : '-gz"'));
-	return new Response(packed as Uint8Array<ArrayBuffer>, { status: response.status, statusText: response.statusText, headers });
+	return new Response(packed as Uint8Array<ArrayBuffer>, {
+		status: response.status,
+		statusText: response.statusText,
+		headers
+	});
 }

@@ -372,7 +372,7 @@ export function loadPatchCached(projectId: number): PatchData {
 	return cacheEntry(projectId).data;
 }
 
-/** JSON text serialised once per change, and a version that changes with any committed write (an ETag's stuff). */
+/** JSON text serialised once per change, and a version naming the answer and the write it was made after (an ETag's stuff). */
 export interface VersionedJson {
 	json: string;
 	version: string;
@@ -387,12 +387,12 @@ export function patchJsonCached(projectId: number): string {
 export function patchJsonVersioned(projectId: number): VersionedJson {
 	const entry = cacheEntry(projectId);
 	entry.json ??= JSON.stringify(entry.data);
-	return { json: entry.json, version: `${projectId}.${entry.key}` };
+	return { json: entry.json, version: `patch.${projectId}.${entry.key}` };
 }
 
 /** GET …/conflicts as JSON text, serialised once per change. */
 export function conflictsJsonCached(projectId: number): VersionedJson {
 	const entry = cacheEntry(projectId);
 	entry.conflictsJson ??= JSON.stringify({ conflicts: entry.data.conflicts });
-	return { json: entry.conflictsJson, version: `${projectId}.${entry.key}` };
+	return { json: entry.conflictsJson, version: `conflicts.${projectId}.${entry.key}` };
 }
