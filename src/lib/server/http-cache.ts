@@ -19,7 +19,8 @@ export function matches(ifNoneMatch: string | null, version: string): boolean {
 	});
 }
 
-export function versionedJson(request: Request, { json, version }: VersionedJson): Response {
+export function versionedJson(request: Request, answer: VersionedJson): Response {
+	const { version } = answer;
 	const headers = {
 		'content-type': 'application/json',
 		etag: entityTag(version),
@@ -27,5 +28,5 @@ export function versionedJson(request: Request, { json, version }: VersionedJson
 		vary: 'accept-encoding'
 	};
 	if (matches(request.headers.get('if-none-match'), version)) return new Response(null, { status: 304, headers });
-	return new Response(json, { headers });
+	return new Response(answer.bytes() as Uint8Array<ArrayBuffer>, { headers });
 }

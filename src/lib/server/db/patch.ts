@@ -336,22 +336,27 @@ interface CacheEntry {
 	json?: string;
 	/** GET …/conflicts as JSON text, made on first ask */
 	conflictsJson?: string;
+	/** the same texts as UTF-8, so a response does not encode megabytes again per request */
+	bytes?: Map<string, Uint8Array>;
 }
 
 const patchCache = new Map<number, CacheEntry>();
 const MAX_CACHED_PROJECTS = 16;
 // the epoch tells one opened database from the next (counters restart), so a key names one state only
-let counter: { client: unknown; stmt: { get(): unknown }; epoch: string } | undefined;
+let counter:
+	{ client: unknown; changes: { get(): unknown }; dataVersion: { get(): unknown }; epoch: string } | undefined;
 
 function changeKey(): string {
 	const client = db().$client;
+	// prepared once: better-sqlite3's pragma() prepares its statement anew on every call
 	if (counter?.client !== client)
 		counter = {
 			client,
-			stmt: client.prepare('select total_changes()').pluck(),
+			changes: client.prepare('select total_changes()').pluck(),
+			dataVersion: client.prepare('pragma data_version').pluck(),
 			epoch: randomBytes(6).toString('base64url')
 		};
-	return `${counter.epoch}.${String(client.pragma('data_version', { simple: true }))}.${String(counter.stmt.get())}`;
+	return `${counter.epoch}.${String(counter.dataVersion.get())}.${String(counter.changes.get())}`;
 }
 
 function cacheEntry(projectId: number): CacheEntry {
@@ -376,6 +381,21 @@ export function loadPatchCached(projectId: number): PatchData {
 export interface VersionedJson {
 	json: string;
 	version: string;
+	/** json as UTF-8, encoded once */
+	bytes(): Uint8Array;
+}
+
+function versioned(entry: CacheEntry, name: string, projectId: number, json: string): VersionedJson {
+	return {
+		json,
+		version: `${name}.${projectId}.${entry.key}`,
+		bytes() {
+			entry.bytes ??= new Map();
+			let b = entry.bytes.get(name);
+			if (!b) entry.bytes.set(name, (b = Buffer.from(json, 'utf8')));
+			return b;
+		}
+	};
 }
 
 /** The patch as JSON text, serialised once per change: a 20,000-fixture patch is megabytes of it. */
@@ -387,12 +407,12 @@ export function patchJsonCached(projectId: number): string {
 export function patchJsonVersioned(projectId: number): VersionedJson {
 	const entry = cacheEntry(projectId);
 	entry.json ??= JSON.stringify(entry.data);
-	return { json: entry.json, version: `patch.${projectId}.${entry.key}` };
+	return versioned(entry, 'patch', projectId, entry.json);
 }
 
 /** GET …/conflicts as JSON text, serialised once per change. */
 export function conflictsJsonCached(projectId: number): VersionedJson {
 	const entry = cacheEntry(projectId);
 	entry.conflictsJson ??= JSON.stringify({ conflicts: entry.data.conflicts });
-	return { json: entry.conflictsJson, version: `conflicts.${projectId}.${entry.key}` };
+	return versioned(entry, 'conflicts', projectId, entry.conflictsJson);
 }
