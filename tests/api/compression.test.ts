@@ -151,6 +151,20 @@ describe('versioned JSON (ETag per write)', () => {
 		expect(patchGz.headers['content-encoding']).toBe('gzip');
 		const conflicts = await raw(`/api/projects/${pid}/conflicts`, { 'accept-encoding': 'gzip' }, owner);
 		expect(conflicts.headers.etag).not.toBe(patchGz.headers.etag);
+		// GET …/fixtures: the rows of …/patch without what the engine computed, the outside write included
+		const rows = JSON.parse(
+			decoded(await raw(`/api/projects/${pid}/fixtures`, { 'accept-encoding': 'br' }, owner))
+		) as {
+			fixtures: Record<string, unknown>[];
+		};
+		expect(rows.fixtures.find((f) => f.id === fixture.id)?.label).toBe('OUTSIDE WRITE');
+		expect(rows.fixtures).toEqual(
+			(JSON.parse(decoded(outside)) as PatchData).fixtures.map((f) => {
+				const copy: Record<string, unknown> = { ...f };
+				for (const computed of ['slots', 'footprint', 'breakSlots']) delete copy[computed];
+				return copy;
+			})
+		);
 		expect(JSON.parse(decoded(conflicts))).toEqual({
 			conflicts: (JSON.parse(decoded(outside)) as PatchData).conflicts
 		});

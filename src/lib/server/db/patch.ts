@@ -334,8 +334,9 @@ interface CacheEntry {
 	data: PatchData;
 	/** the same patch as the JSON the API sends, made on first ask */
 	json?: string;
-	/** GET …/conflicts as JSON text, made on first ask */
+	/** GET …/conflicts and GET …/fixtures as JSON text, made on first ask */
 	conflictsJson?: string;
+	fixturesJson?: string;
 	/** the same texts as UTF-8, so a response does not encode megabytes again per request */
 	bytes?: Map<string, Uint8Array>;
 }
@@ -415,4 +416,13 @@ export function conflictsJsonCached(projectId: number): VersionedJson {
 	const entry = cacheEntry(projectId);
 	entry.conflictsJson ??= JSON.stringify({ conflicts: entry.data.conflicts });
 	return versioned(entry, 'conflicts', projectId, entry.conflictsJson);
+}
+
+/** GET …/fixtures (listFixtures: the rows, without what the engine computed) as JSON text, serialised once per change. */
+export function fixturesJsonCached(projectId: number): VersionedJson {
+	const entry = cacheEntry(projectId);
+	entry.fixturesJson ??= JSON.stringify({
+		fixtures: entry.data.fixtures.map(({ slots: _slots, footprint: _footprint, breakSlots: _breaks, ...f }) => f)
+	});
+	return versioned(entry, 'fixtures', projectId, entry.fixturesJson);
 }
