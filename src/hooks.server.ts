@@ -84,6 +84,7 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 };
 
 // outermost, so it sees each answer as it leaves: JSON and HTML go out as br or gzip when asked for
+// (SvelteKit compares If-None-Match with the final ETag, coding suffix included, after every hook)
 const compress: Handle = async ({ event, resolve }) => compressResponse(event.request, await resolve(event));
 
 export const handle = sequence(compress, limitSignIn, limitSignInLinks, authHandle, readUser, securityHeaders);

@@ -83,6 +83,14 @@ describe('compression', () => {
 		expect(page.headers['content-encoding']).toBe('gzip');
 		const html = decoded(page);
 		expect(html).toMatch(/^<!doctype html>/i);
+		// the page's own ETag, sent back in its gzip form, still earns SvelteKit's 304
+		expect(page.headers.etag).toMatch(/-gz"$/);
+		const again = await raw(
+			`/projects/${pid}/patch`,
+			{ 'accept-encoding': 'gzip', accept: 'text/html', 'if-none-match': page.headers.etag as string },
+			owner
+		);
+		expect(again.status).toBe(304);
 
 		// a script the page loads: adapter-node's own .br file, compressed once (it decodes to JavaScript)
 		const script = /\/_app\/immutable\/[^"]+\.js/.exec(html)?.[0];
