@@ -1,6 +1,7 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth/index';
+import { compressResponse } from '$lib/server/compress';
 import { readSession } from '$lib/server/auth/session';
 import { db } from '$lib/server/db/index';
 import { purgeRevokedSessions } from '$lib/server/db/users';
@@ -82,7 +83,11 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(limitSignIn, limitSignInLinks, authHandle, readUser, securityHeaders);
+// outermost, so it sees each answer as it leaves: JSON and HTML go out as br or gzip when asked for
+// (SvelteKit compares If-None-Match with the final ETag, coding suffix included, after every hook)
+const compress: Handle = async ({ event, resolve }) => compressResponse(event.request, await resolve(event));
+
+export const handle = sequence(compress, limitSignIn, limitSignInLinks, authHandle, readUser, securityHeaders);
 
 export const handleError: HandleServerError = ({ error, status }) => {
 	if (status !== 404) console.error(error);

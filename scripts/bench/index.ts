@@ -5,8 +5,9 @@ import { engine } from './engine';
 import { importCsv5k } from './import-csv-5k';
 import { load } from './load';
 import { pdf } from './pdf';
+import { requests } from './requests';
 import { stallHealthP99 } from './stall-health-p99';
 import { table } from './table';
 import type { BenchModule } from './harness';
 
-export const modules: BenchModule[] = [engine, api, pdf, table, load, importCsv5k, stallHealthP99];
+export const modules: BenchModule[] = [engine, api, requests, pdf, table, load, importCsv5k, stallHealthP99];

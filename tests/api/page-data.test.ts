@@ -126,4 +126,73 @@ describe('page loads answer what the API answers', () => {
 		expect(stale.diff).toBeNull();
 		expect(stale.diffError).toBe(((await missing.json()) as { error: { message: string } }).error.message);
 	});
+
+	it('the types page lists the types of GET …/patch', async () => {
+		const p = await api<PatchData>(owner, `/api/projects/${pid}/patch`);
+		expect(p.types.length).toBeGreaterThan(0);
+		const page = await pageData(owner, `/projects/${pid}/types`);
+		expect(page.types).toEqual(p.types);
+		expect(page.role).toBe('owner');
+	});
+
+	it('the review page answers what GET /api/review/:token answers, and refuses what it refuses', async () => {
+		expect((await owner.post(`/api/projects/${pid}/revisions`, { note: 'for review' })).status).toBe(201);
+		const made = await owner.post(`/api/projects/${pid}/review-links`, { revision: 'latest' });
+		expect(made.status).toBe(201);
+		const token = new URL(((await made.json()) as { url: string }).url).pathname.split('/').pop()!;
+		const producer = server.anonymous();
+		const page = await pageData(producer, `/review/${token}`);
+		expect(page.review).toEqual(await api(producer, `/api/review/${token}`));
+
+		// a token that does not exist: the page's error carries the API's status and message
+		const forged = 'x'.repeat(token.length);
+		const apiAnswer = await producer.get(`/api/review/${forged}`);
+		const pageAnswer = await producer.get(`/review/${forged}/__data.json`);
+		expect(apiAnswer.status).toBe(404);
+		const pageBody = (await pageAnswer.json()) as {
+			nodes: ({ type: string; status?: number; error?: { message: string } } | null)[];
+		};
+		const failed = pageBody.nodes.find((n) => n?.type === 'error');
+		expect(failed?.status).toBe(404);
+		expect(failed?.error?.message).toBe(((await apiAnswer.json()) as { error: { message: string } }).error.message);
+	});
+
+	it('the review page signs off through the same function as POST /api/review/:token/signoff', async () => {
+		const made = await owner.post(`/api/projects/${pid}/review-links`, { revision: 'latest' });
+		const token = new URL(((await made.json()) as { url: string }).url).pathname.split('/').pop()!;
+		const producer = server.anonymous();
+		const signoffs = async () =>
+			(await api<{ revision: { signoffs: unknown[] } }>(producer, `/api/review/${token}`)).revision.signoffs.length;
+		const before = await signoffs();
+		const submit = (fields: Record<string, string>) =>
+			producer.fetch(`/review/${token}?/signoff`, {
+				method: 'POST',
+				headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-sveltekit-action': 'true' },
+				body: new URLSearchParams(fields).toString()
+			});
+
+		// no name: refused in the schema's words, the typed comment kept, nothing written
+		const refused = (await (await submit({ name: ' ', decision: 'approved', comment: 'fine' })).json()) as {
+			type: string;
+			status: number;
+			data: string;
+		};
+		expect(refused.type).toBe('failure');
+		expect(refused.status).toBe(400);
+		const failure = unflatten(JSON.parse(refused.data)) as { message: string; values: Record<string, string> };
+		expect(failure.message).toBe('Tell us your name.');
+		expect(failure.values.comment).toBe('fine');
+		expect(await signoffs()).toBe(before);
+
+		const accepted = (await (await submit({ name: 'Page Producer', decision: 'approved', comment: '' })).json()) as {
+			type: string;
+			location: string;
+		};
+		expect(accepted).toMatchObject({ type: 'redirect', location: `/review/${token}?signed=approved` });
+		const after = (
+			await api<{ revision: { signoffs: { name: string; decision: string }[] } }>(producer, `/api/review/${token}`)
+		).revision.signoffs;
+		expect(after.length).toBe(before + 1);
+		expect(after.some((s) => s.name === 'Page Producer' && s.decision === 'approved')).toBe(true);
+	});
 });

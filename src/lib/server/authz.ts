@@ -1,7 +1,6 @@
 import { error, type RequestEvent } from '@sveltejs/kit';
-import { and, eq } from 'drizzle-orm';
-import { db } from './db/index';
-import { memberships, projects, type Role } from './db/schema';
+import { memberRole } from './db/members';
+import type { Role } from './db/schema';
 
 // The one authorization helper. Every server load, form action and
 // +server.ts calls it; a layout's check does not cover actions or API routes.
@@ -43,18 +42,13 @@ export function requireRole(
 	const id = parseId(projectId);
 	const notFound = () => error(404, { message: 'No such project.', code: 'not-found' });
 	if (id === null) notFound();
-	const row = db()
-		.select({ role: memberships.role })
-		.from(memberships)
-		.innerJoin(projects, eq(projects.id, memberships.projectId))
-		.where(and(eq(memberships.projectId, id!), eq(memberships.userId, user.id)))
-		.get();
-	if (!row) notFound();
-	if (!roleAtLeast(row!.role, minimum)) {
+	const role = memberRole(id!, user.id);
+	if (!role) notFound();
+	if (!roleAtLeast(role!, minimum)) {
 		error(403, {
-			message: `This needs the ${minimum} role or higher; you are ${row!.role}.`,
+			message: `This needs the ${minimum} role or higher; you are ${role}.`,
 			code: 'forbidden'
 		});
 	}
-	return { user, projectId: id!, role: row!.role };
+	return { user, projectId: id!, role: role! };
 }

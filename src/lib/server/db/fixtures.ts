@@ -318,7 +318,10 @@ function createFixturesTx(projectId: number, userId: string, inputs: FixtureCrea
 export type FixtureChange = Omit<FixturePatch, 'version'> & { id: number; version: number };
 
 function applyChanges(projectId: number, userId: string, changes: FixtureChange[], many: boolean): FixtureShape[] {
-	const ctx = loadContext(projectId);
+	// read the project's types, universes and numbers only for a change that is checked against them:
+	// a state or notes change (most writes on set) skips it
+	let loaded: Context | undefined;
+	const ctx = () => (loaded ??= loadContext(projectId));
 	const rows = db()
 		.select()
 		.from(fixtures)
@@ -363,20 +366,20 @@ function applyChanges(projectId: number, userId: string, changes: FixtureChange[
 		m.change.modeId !== undefined ||
 		m.change.typeId !== undefined ||
 		m.change.feed !== undefined
-			? check(ctx, m.next, many ? ['fixtures', i] : [], m.before.id)
+			? check(ctx(), m.next, many ? ['fixtures', i] : [], m.before.id)
 			: []
 	);
 	if (issues.length > 0) refuse(issues);
-	numbersClash(
-		ctx,
-		merged
-			.filter((m) => m.change.number !== undefined)
-			.map((m) => ({
+	const numbered = merged.filter((m) => m.change.number !== undefined);
+	if (numbered.length > 0)
+		numbersClash(
+			ctx(),
+			numbered.map((m) => ({
 				number: m.next.number,
 				id: m.before.id,
 				path: many ? ['fixtures', changes.indexOf(m.change)] : []
 			}))
-	);
+		);
 	// numbers move aside first so a batch may swap them without tripping the unique index mid-way
 	const renumbered = merged.filter((m) => m.change.number !== undefined).map((m) => m.before.id);
 	if (renumbered.length > 0)

@@ -38,6 +38,23 @@ export function db(): Db {
 	return shared;
 }
 
+/**
+ * A statement built once per open database and reused: on the per-request reads (session, role,
+ * project) drizzle's query builder and SQLite's prepare cost more than the query itself.
+ */
+export function prepared<T>(build: (database: Db) => T): () => T {
+	let builtFor: Db | undefined;
+	let statement: T | undefined;
+	return () => {
+		const database = db();
+		if (builtFor !== database) {
+			statement = build(database);
+			builtFor = database;
+		}
+		return statement as T;
+	};
+}
+
 export function closeDatabase(): void {
 	shared?.$client.close();
 	shared = undefined;

@@ -2,8 +2,8 @@ import { and, asc, eq, isNull, sql } from 'drizzle-orm';
 import { now } from '../clock';
 import { DuplicateError, ForbiddenError, GoneError, NotFoundError, RefusedError } from '../errors';
 import { recordAudit } from './audit';
-import { db } from './index';
-import { invitations, memberships, users, type Role } from './schema';
+import { db, prepared } from './index';
+import { invitations, memberships, projects, users, type Role } from './schema';
 
 // Membership rules in one place, each change in one transaction: a project always keeps an owner,
 // and nobody becomes a member except by accepting an invitation with a verified address.
@@ -11,6 +11,22 @@ import { invitations, memberships, users, type Role } from './schema';
 /** 409 `last-owner`, the code the API has always answered for this rule. */
 const lastOwner = () =>
 	new RefusedError('A project needs at least one owner: make someone else owner first.', { code: 'last-owner' });
+
+const roleCheck = prepared((database) =>
+	database
+		.select({ role: memberships.role })
+		.from(memberships)
+		.innerJoin(projects, eq(projects.id, memberships.projectId))
+		.where(
+			and(eq(memberships.projectId, sql.placeholder('projectId')), eq(memberships.userId, sql.placeholder('userId')))
+		)
+		.prepare()
+);
+
+/** The caller's role in an existing project, or undefined (no such project, or not a member): every request's check. */
+export function memberRole(projectId: number, userId: string): Role | undefined {
+	return roleCheck().get({ projectId, userId })?.role;
+}
 
 function roleOf(projectId: number, userId: string): Role {
 	const row = db()

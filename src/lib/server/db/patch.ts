@@ -1,4 +1,5 @@
 import { asc, eq, inArray } from 'drizzle-orm';
+import { randomBytes } from 'node:crypto';
 import {
 	computePatch,
 	defaultChannelCount,
@@ -333,16 +334,30 @@ interface CacheEntry {
 	data: PatchData;
 	/** the same patch as the JSON the API sends, made on first ask */
 	json?: string;
+	/** GET …/conflicts and GET …/fixtures as JSON text, made on first ask */
+	conflictsJson?: string;
+	fixturesJson?: string;
+	/** the same texts as UTF-8, so a response does not encode megabytes again per request */
+	bytes?: Map<string, Uint8Array>;
 }
 
 const patchCache = new Map<number, CacheEntry>();
 const MAX_CACHED_PROJECTS = 16;
-let counter: { client: unknown; stmt: { get(): unknown } } | undefined;
+// the epoch tells one opened database from the next (counters restart), so a key names one state only
+let counter:
+	{ client: unknown; changes: { get(): unknown }; dataVersion: { get(): unknown }; epoch: string } | undefined;
 
 function changeKey(): string {
 	const client = db().$client;
-	if (counter?.client !== client) counter = { client, stmt: client.prepare('select total_changes()').pluck() };
-	return `${String(client.pragma('data_version', { simple: true }))}:${String(counter.stmt.get())}`;
+	// prepared once: better-sqlite3's pragma() prepares its statement anew on every call
+	if (counter?.client !== client)
+		counter = {
+			client,
+			changes: client.prepare('select total_changes()').pluck(),
+			dataVersion: client.prepare('pragma data_version').pluck(),
+			epoch: randomBytes(6).toString('base64url')
+		};
+	return `${counter.epoch}.${String(counter.dataVersion.get())}.${String(counter.changes.get())}`;
 }
 
 function cacheEntry(projectId: number): CacheEntry {
@@ -363,9 +378,51 @@ export function loadPatchCached(projectId: number): PatchData {
 	return cacheEntry(projectId).data;
 }
 
+/** JSON text serialised once per change, and a version naming the answer and the write it was made after (an ETag's stuff). */
+export interface VersionedJson {
+	json: string;
+	version: string;
+	/** json as UTF-8, encoded once */
+	bytes(): Uint8Array;
+}
+
+function versioned(entry: CacheEntry, name: string, projectId: number, json: string): VersionedJson {
+	return {
+		json,
+		version: `${name}.${projectId}.${entry.key}`,
+		bytes() {
+			entry.bytes ??= new Map();
+			let b = entry.bytes.get(name);
+			if (!b) entry.bytes.set(name, (b = Buffer.from(json, 'utf8')));
+			return b;
+		}
+	};
+}
+
 /** The patch as JSON text, serialised once per change: a 20,000-fixture patch is megabytes of it. */
 export function patchJsonCached(projectId: number): string {
+	return patchJsonVersioned(projectId).json;
+}
+
+/** patchJsonCached with the version it was made at. */
+export function patchJsonVersioned(projectId: number): VersionedJson {
 	const entry = cacheEntry(projectId);
 	entry.json ??= JSON.stringify(entry.data);
-	return entry.json;
+	return versioned(entry, 'patch', projectId, entry.json);
+}
+
+/** GET …/conflicts as JSON text, serialised once per change. */
+export function conflictsJsonCached(projectId: number): VersionedJson {
+	const entry = cacheEntry(projectId);
+	entry.conflictsJson ??= JSON.stringify({ conflicts: entry.data.conflicts });
+	return versioned(entry, 'conflicts', projectId, entry.conflictsJson);
+}
+
+/** GET …/fixtures (listFixtures: the rows, without what the engine computed) as JSON text, serialised once per change. */
+export function fixturesJsonCached(projectId: number): VersionedJson {
+	const entry = cacheEntry(projectId);
+	entry.fixturesJson ??= JSON.stringify({
+		fixtures: entry.data.fixtures.map(({ slots: _slots, footprint: _footprint, breakSlots: _breaks, ...f }) => f)
+	});
+	return versioned(entry, 'fixtures', projectId, entry.fixturesJson);
 }

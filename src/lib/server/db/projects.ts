@@ -1,6 +1,6 @@
 import { and, asc, eq, sql } from 'drizzle-orm';
 import type { Member, Project } from '../../shapes';
-import { db } from './index';
+import { db, prepared } from './index';
 import { recordAudit } from './audit';
 import { NotFoundError, StaleVersionError } from '../errors';
 import { removeProjectFiles } from './photos';
@@ -36,8 +36,16 @@ export function listProjectsForUser(userId: string): Project[] {
 		.map((r) => projectShape(r.project, r.role));
 }
 
+const projectById = prepared((database) =>
+	database
+		.select()
+		.from(projects)
+		.where(eq(projects.id, sql.placeholder('id')))
+		.prepare()
+);
+
 export function getProject(id: number): ProjectRow | undefined {
-	return db().select().from(projects).where(eq(projects.id, id)).get();
+	return projectById().get({ id });
 }
 
 export interface NewProject {

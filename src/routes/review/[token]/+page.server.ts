@@ -1,11 +1,16 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import type { DescribedChanges, PatchDiff } from '$lib/patch';
+import { action, loader } from '$lib/server/forms';
 import type { PatchData } from '$lib/server/db/patch';
 import type { RevisionShape } from '$lib/server/db/revisions';
+import { InvalidError } from '$lib/server/errors';
+import { zodIssues } from '$lib/server/api';
+import { resolveToken, reviewPayload, signOff, throttleSignoff } from '$lib/server/review';
+import { linkSignoff } from '$lib/schemas/revision';
 import type { Actions, PageServerLoad } from './$types';
 
-// No account here: the token in the path is the authorization, checked by the
-// /api/review routes this page calls (they rate-limit and scope to one revision).
+// No account here: the token in the path is the authorization. The page calls what the
+// /api/review routes call (the same throttles, the same one-revision scope), without a second trip.
 
 export interface ReviewData {
 	project: { name: string; venue: string; startsOn: string | null; endsOn: string | null };
@@ -15,32 +20,28 @@ export interface ReviewData {
 	diff: (PatchDiff & { since: number; changes: DescribedChanges }) | null;
 }
 
-export const load: PageServerLoad = async (event) => {
-	const res = await event.fetch(`/api/review/${encodeURIComponent(event.params.token)}`);
-	const body = await res.json();
-	if (!res.ok)
-		error(res.status, { message: body?.error?.message ?? 'This review link does not work.', code: body?.error?.code });
-	return { review: body as ReviewData, signed: event.url.searchParams.get('signed') };
-};
+export const load: PageServerLoad = loader((event) => {
+	const { link, revision } = resolveToken(event);
+	const review: ReviewData = reviewPayload(link, revision);
+	return { review, signed: event.url.searchParams.get('signed') };
+});
 
 export const actions: Actions = {
-	signoff: async (event) => {
-		const form = await event.request.formData();
+	signoff: action('signoff', async (event, form) => {
+		throttleSignoff(event.getClientAddress());
+		const { link, revision } = resolveToken(event);
 		const values = {
 			name: String(form.get('name') ?? ''),
 			decision: String(form.get('decision') ?? ''),
 			comment: String(form.get('comment') ?? '')
 		};
-		const res = await event.fetch(`/api/review/${encodeURIComponent(event.params.token)}/signoff`, {
-			method: 'POST',
-			headers: { 'content-type': 'application/json' },
-			body: JSON.stringify(values)
-		});
-		if (res.status !== 201) {
-			const body = await res.json();
-			const message = body?.error?.issues?.[0]?.message ?? body?.error?.message ?? 'Could not sign off.';
-			return fail(res.status === 400 ? 400 : res.status, { values, message });
+		const parsed = linkSignoff.safeParse(values);
+		// the page shows one sentence above the form: the first problem, in plain words
+		if (!parsed.success) {
+			const issues = zodIssues(parsed.error);
+			throw new InvalidError(issues[0]?.message ?? 'Some fields need fixing.', issues);
 		}
-		redirect(303, `/review/${event.params.token}?signed=${values.decision}`);
-	}
+		await signOff(revision, { ...parsed.data, reviewLinkId: link.id });
+		redirect(303, `/review/${event.params.token}?signed=${parsed.data.decision}`);
+	})
 };

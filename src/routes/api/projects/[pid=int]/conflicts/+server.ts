@@ -1,10 +1,10 @@
-import { json } from '@sveltejs/kit';
 import { api } from '$lib/server/api';
 import { requireRole } from '$lib/server/authz';
-import { loadPatchCached } from '$lib/server/db/patch';
+import { conflictsJsonCached } from '$lib/server/db/patch';
+import { versionedJson } from '$lib/server/http-cache';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = api((event) => {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	return json({ conflicts: loadPatchCached(projectId).conflicts });
+	return versionedJson(event.request, conflictsJsonCached(projectId));
 });
