@@ -12,8 +12,8 @@ describe('templateFor', () => {
 	it('makes the Type · mode track at least as wide as its longest text', () => {
 		const long = 'Marrowlight Reed Tube 120 · HSIC 16-bit + FX'; // 44 characters
 		const template = templateFor(ids, [row({}), row({ typeMode: long })]);
-		// 44 × 0.6em = 26.4em, never less than 14rem nor more than 30rem
-		expect(template).toContain('minmax(min(30rem, max(14rem, 26.4em + 1rem)), 2fr)');
+		// 44 × 0.53rem = 23.3rem (in rem, so the header row's smaller type gets the same track), within 14–30rem
+		expect(template).toContain('minmax(min(30rem, max(14rem, 23.3rem + 1rem)), 2fr)');
 	});
 
 	it('shrinks columns empty on every row to their header, and keeps them when one row has a value', () => {

@@ -180,8 +180,9 @@ export function templateFor(columnIds: readonly string[], rows: readonly RowView
 	return columnIds
 		.map((id) => {
 			if (empty.has(id)) return EMPTY_WIDTHS[id];
-			// ~0.6em a character of IBM Plex Sans at this size, plus the cell's padding; at most 30rem
-			if (id === 'typeMode') return `minmax(min(30rem, max(14rem, ${(longest * 0.6).toFixed(1)}em + 1rem)), 2fr)`;
+			// rem, not em: the header row's type is smaller than the rows', and both must get one track.
+			// ~0.53rem a character of IBM Plex Sans at the rows' 14 px, plus the cell's padding; at most 30rem
+			if (id === 'typeMode') return `minmax(min(30rem, max(14rem, ${(longest * 0.53).toFixed(1)}rem + 1rem)), 2fr)`;
 			return WIDTHS[id] ?? '1fr';
 		})
 		.join(' ');
