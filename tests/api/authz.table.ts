@@ -118,6 +118,7 @@ export const ROUTES: Row[] = [
 	row('POST',   '/api/projects/[pid]/fixtures',                       [201, 201, 403, 403, 404, 401, 401], (c) => ({ body: { number: 5000 + c.seq(), typeId: c.base.typeId, modeId: c.base.modeId } })),
 	row('PATCH',  '/api/projects/[pid]/fixtures',                       [200, 200, 200, 403, 404, 401, 401], async (c) => ({ body: { fixtures: [{ id: (await c.fixture()).id, state: 'hung', version: 1 }] } })),
 	row('DELETE', '/api/projects/[pid]/fixtures',                       [200, 200, 403, 403, 404, 401, 401], async (c) => ({ body: { ids: [(await c.fixture()).id] } })),
+	row('POST',   '/api/projects/[pid]/fixtures/bulk',                  [200, 200, 403, 403, 404, 401, 401], async (c) => ({ body: { action: 'set', ids: [(await c.fixture()).id], fields: { state: 'hung' } } })),
 	row('GET',    '/api/projects/[pid]/fixtures/[id]',                  [200, 200, 200, 200, 404, 401, 401], fixture),
 	row('PATCH',  '/api/projects/[pid]/fixtures/[id]',                  [200, 200, 200, 403, 404, 401, 401], async (c) => ({ ...(await fixture(c)), body: { notes: 'seen on set', state: 'checked', version: 1 } })),
 	row('DELETE', '/api/projects/[pid]/fixtures/[id]',                  [204, 204, 403, 403, 404, 401, 401], fixture),

@@ -207,6 +207,24 @@ describe('CSV patch import', () => {
 		expect(f2).toMatchObject({ version: 2, label: 'Key 2', control: { kind: 'dmx', address: 201 } });
 	});
 
+	it('takes "2.101" in the Universe column (issue 18: it was refused as "not a universe number")', async () => {
+		const p = await newProject('CSV universe.address');
+		await makePanelType(p);
+		const csv = [
+			'Unit,Maker,Model,Mode,Universe',
+			'1,Acme Lamps,Deck Panel,basic,2.101',
+			'2,Acme Lamps,Deck Panel,basic,2.103'
+		].join('\n');
+		const applied = await importTo(p, csv, 'patch.csv', true);
+		expect(applied.status).toBe(201);
+		const patch = await (await as.programmer.get(`/api/projects/${p}/patch`)).json();
+		const uni2 = patch.universes.find((u: { number: number }) => u.number === 2).id;
+		expect(patch.fixtures.map((f: { number: number; control: unknown }) => [f.number, f.control])).toEqual([
+			[1, { kind: 'dmx', universeId: uni2, address: 101 }],
+			[2, { kind: 'dmx', universeId: uni2, address: 103 }]
+		]);
+	});
+
 	it('one bad row writes nothing and every bad row is named (header = row 1)', async () => {
 		const p = await newProject('CSV bad');
 		await makePanelType(p);

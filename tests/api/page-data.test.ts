@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoProjectId } from '../helpers/revisions';
 import { startServer, type Client, type TestServer } from '../helpers/server';
 import type { PatchData } from '../../src/lib/shapes';
+import { decodeTableFeed, type TableFeed } from '../../src/lib/table-feed';
 
 // Pages read the same server functions as the JSON API (issue 14, "pages without a second trip"):
 // what a page's load answers must be what its API route answers, so moving loads off
@@ -95,6 +96,21 @@ describe('page loads answer what the API answers', () => {
 			);
 			expect(page.conflicts).toEqual(p.conflicts.filter((c) => c.universeId === universe.id));
 		}
+	});
+
+	it('the patch table: its lean feed decodes to GET …/patch (less the notes it does not show)', async () => {
+		const p = await api<PatchData>(owner, `/api/projects/${pid}/patch`);
+		expect(
+			p.fixtures.some((f) => f.notes !== ''),
+			'the demo has notes'
+		).toBe(true);
+		const page = await pageData(owner, `/projects/${pid}/patch`);
+		expect(page.patch, 'no whole patch beside the lean feed').toBeUndefined();
+		const decoded = decodeTableFeed(page.feed as TableFeed);
+		expect(decoded).toEqual({ ...p, fixtures: p.fixtures.map((f) => ({ ...f, notes: '' })) });
+		// the electrician reads the same table
+		const electrician = await server.signIn('electrician@demo.test');
+		expect(decodeTableFeed((await pageData(electrician, `/projects/${pid}/patch`)).feed as TableFeed)).toEqual(decoded);
 	});
 
 	it('the revisions page: revisions, review links and a diff', async () => {

@@ -1,4 +1,4 @@
-import type { PatchData } from '$lib/shapes';
+import type { FixtureShape, PatchData } from '$lib/shapes';
 
 // The browser end of the live feed (src/lib/server/live.ts): one EventSource per open page.
 // Changes arrive in counter order; a jump in the counter, a reconnect to a server that moved on
@@ -77,4 +77,19 @@ export function applyLive(patch: PatchData, e: Pick<LiveEvent, 'fixtures' | 'del
 		fixtures: changedNumbers && !added.length ? [...fixtures].sort((a, b) => a.number - b.number) : fixtures,
 		conflicts: e.conflicts
 	};
+}
+
+/**
+ * A write's own answer applied at once: the API answers rows without their computed slots, so a
+ * row keeps the slots it had (a new one has none) until the live event brings them; if that
+ * event came first, its slots stay.
+ */
+export function applyAnswer(patch: PatchData, changed: readonly FixtureShape[]): PatchData {
+	// eslint-disable-next-line svelte/prefer-svelte-reactivity -- a throwaway lookup, never mutated
+	const had = new Map(patch.fixtures.map((f) => [f.id, f]));
+	const rows = changed.map((f) => {
+		const old = had.get(f.id);
+		return { ...f, slots: old?.slots ?? [], footprint: old?.footprint ?? null, breakSlots: old?.breakSlots };
+	});
+	return applyLive(patch, { fixtures: rows, deleted: [], conflicts: patch.conflicts });
 }

@@ -13,3 +13,4 @@ export * from './diff';
 export { sweep, type Claim, type SweepResult } from './sweep';
 export * from './power';
 export * from './describe';
+export * from './bulk';

@@ -31,6 +31,24 @@ describe('CSV patch parsing', () => {
 		]);
 	});
 
+	it('reads "2.101" in the Universe column, alone or beside an address column that agrees (issue 18)', () => {
+		const alone = parseCsvPatch('Number,Universe\n1,2.101\n2,3/7\n');
+		expect(alone.issues).toEqual([]);
+		expect(alone.rows).toEqual([
+			{ row: 2, number: 1, universe: 2, address: 101 },
+			{ row: 3, number: 2, universe: 3, address: 7 }
+		]);
+		const both = parseCsvPatch('Number,Universe,Address\n1,2.101,\n2,2.101,101\n3,2.101,5\n4,2,101\n');
+		expect(both.rows.map((r) => [r.number, r.universe, r.address])).toEqual([
+			[1, 2, 101],
+			[2, 2, 101],
+			[4, 2, 101]
+		]);
+		expect(both.issues).toEqual([
+			{ row: 4, field: 'address', message: 'The universe column says 2.101 but the address column says 5.' }
+		]);
+	});
+
 	it('names every bad row and field', () => {
 		const text = ['number,universe,address', 'x,1,1', '3,1,abc', '3,1,5', '4,,9', '5,2,"3.9"'].join('\n');
 		const { rows, issues } = parseCsvPatch(text);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { applyLive, LiveFeed, type LiveEvent } from '../../../src/lib/client/live.svelte';
+import { applyAnswer, applyLive, LiveFeed, type LiveEvent } from '../../../src/lib/client/live.svelte';
 import type { PatchData } from '../../../src/lib/server/db/patch';
 
 // Live changes in counter order (WHATWG HTML "Server-sent events" carry them); a gap refetches.
@@ -33,6 +33,20 @@ describe('applyLive', () => {
 	it('a renumbered row moves to its place', () => {
 		const after = applyLive(patchOf([fx(1, 101), fx(2, 102)]), { fixtures: [fx(1, 200)], deleted: [], conflicts: [] });
 		expect(after.fixtures.map((f) => f.id)).toEqual([2, 1]);
+	});
+});
+
+describe('applyAnswer', () => {
+	it('keeps the computed slots a changed row had, gives a new row none, and keeps the conflicts', () => {
+		const slots = [{ start: 1, end: 6 }];
+		const before = patchOf([{ ...fx(1, 101), slots, footprint: 6 } as Fx]);
+		const after = applyAnswer(before, [{ ...fx(1, 101, 'RELABELLED') } as Fx, { ...fx(5, 150, 'COPY') } as Fx]);
+		expect(after.fixtures.map((f) => [f.id, f.label, f.slots])).toEqual([
+			[1, 'RELABELLED', slots],
+			[5, 'COPY', []]
+		]);
+		expect(after.fixtures[0].footprint).toBe(6);
+		expect(after.conflicts).toBe(before.conflicts);
 	});
 });
 

@@ -216,6 +216,14 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 		}
 		let uText = get('universe');
 		let aText = get('address');
+		// "2.101" in the Universe column: the address rides along (an address column may repeat it)
+		const inUniverse = /^(\d+)\s*[./:]\s*(\d+)$/.exec(uText);
+		if (inUniverse) {
+			if (aText !== '' && int(aText) !== Number(inUniverse[2]))
+				return bad('address', `The universe column says ${uText} but the address column says ${aText}.`);
+			uText = inUniverse[1];
+			aText = inUniverse[2];
+		}
 		// "2.101" (also 2/101, 2:101) in the address or a combined column
 		const combined = /^(\d+)\s*[./:]\s*(\d+)$/.exec(get('patch') || aText);
 		if (combined) {

@@ -144,7 +144,6 @@ export const WIDTHS: Record<string, string> = {
 	select: '2.5rem',
 	number: '4rem',
 	label: 'minmax(7rem, 1fr)',
-	// wide enough for "maker model · mode 16-bit": the bit depth is what tells modes apart
 	typeMode: 'minmax(14rem, 2fr)',
 	control: 'minmax(7rem, 0.9fr)',
 	slots: '6.5rem',
@@ -154,6 +153,40 @@ export const WIDTHS: Record<string, string> = {
 	colour: '3rem',
 	conflicts: 'minmax(9rem, 1.2fr)'
 };
+
+/** A column with nothing in any row takes only its header's width. */
+const EMPTY_WIDTHS: Record<string, string> = {
+	slots: '3.5rem',
+	position: '5.5rem',
+	group: '4.5rem',
+	conflicts: '6.5rem'
+};
+const EMPTY: Record<string, (r: RowView) => boolean> = {
+	slots: (r) => r.slots === '',
+	position: (r) => r.position === '',
+	group: (r) => r.group === '',
+	conflicts: (r) => r.conflicts.length === 0
+};
+
+/**
+ * The grid's column template for these rows: every row is its own grid, so tracks cannot size to
+ * content; instead the Type · mode track is at least as wide as its longest text (the bit depth at
+ * the end is what tells modes apart), and a column empty on every row shrinks to its header.
+ */
+export function templateFor(columnIds: readonly string[], rows: readonly RowView[]): string {
+	let longest = 0;
+	for (const r of rows) if (r.typeMode.length > longest) longest = r.typeMode.length;
+	const empty = new Set(Object.keys(EMPTY).filter((id) => rows.every(EMPTY[id])));
+	return columnIds
+		.map((id) => {
+			if (empty.has(id)) return EMPTY_WIDTHS[id];
+			// rem, not em: the header row's type is smaller than the rows', and both must get one track.
+			// ~0.53rem a character of IBM Plex Sans at the rows' 14 px, plus the cell's padding; at most 30rem
+			if (id === 'typeMode') return `minmax(min(30rem, max(14rem, ${(longest * 0.53).toFixed(1)}rem + 1rem)), 2fr)`;
+			return WIDTHS[id] ?? '1fr';
+		})
+		.join(' ');
+}
 
 /** Columns a programmer can change inline. */
 export const EDITABLE = new Set(['label', 'typeMode', 'control']);

@@ -4,6 +4,7 @@ import { num, rowId, text } from '$lib/server/form-fields';
 import { loadPatchCached } from '$lib/server/db/patch';
 import { assignReceiver, createReceiver, deleteReceiver, updateReceiver } from '$lib/server/db/receivers';
 import { receiverCreate, receiverPatch } from '$lib/schemas/receiver';
+import { publish } from '$lib/server/live';
 import { summarizeAssign } from './assign-summary';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -29,7 +30,7 @@ export const load: PageServerLoad = async (event) => {
 			),
 			fixtures: rc
 				.filter((f) => f.control.kind === 'rc' && f.control.receiverId === r.id)
-				.map((f) => ({ number: f.number, label: f.label }))
+				.map((f) => ({ id: f.id, number: f.number, label: f.label }))
 		})),
 		unassigned: rc
 			.filter((f) => f.control.kind === 'rc' && f.control.receiverId == null)
@@ -67,17 +68,20 @@ export const actions: Actions = {
 		const { projectId, user } = requireRole(event, event.params.id, 'programmer');
 		const input = parseWith(receiverCreate, receiverFields(form));
 		const r = createReceiver(projectId, user.id, input);
+		publish(projectId, { by: user.id, refetch: true });
 		return { done: `Receiver "${r.name}" added.` };
 	}),
 	update: action('update', async (event, form) => {
 		const { projectId, user } = requireRole(event, event.params.id, 'programmer');
 		const patch = parseWith(receiverPatch, { ...receiverFields(form), version: num(form, 'version') });
 		const r = updateReceiver(projectId, user.id, rowId(form), patch);
+		publish(projectId, { by: user.id, refetch: true });
 		return { done: `Receiver "${r.name}" saved.` };
 	}),
 	delete: action('delete', async (event, form) => {
 		const { projectId, user } = requireRole(event, event.params.id, 'programmer');
 		deleteReceiver(projectId, user.id, rowId(form), text(form, 'detach') === '1');
+		publish(projectId, { by: user.id, refetch: true });
 		return { done: 'Receiver deleted.' };
 	}),
 	preview: action('preview', async (event, form) => {
@@ -94,6 +98,7 @@ export const actions: Actions = {
 		const before = loadPatchCached(projectId);
 		const o = assignOptions(form);
 		const result = assignReceiver(projectId, user.id, id, { ...o, apply: true });
+		publish(projectId, { ids: [...new Set(result.assigned.map((a) => a.fixtureId))], by: user.id });
 		return { assigned: summarizeAssign(id, before.fixtures, result, o.keepExisting) };
 	})
 };

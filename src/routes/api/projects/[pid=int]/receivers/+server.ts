@@ -4,6 +4,7 @@ import { requireRole } from '$lib/server/authz';
 import { listReceivers } from '$lib/server/db/patch';
 import { createReceiver } from '$lib/server/db/receivers';
 import { receiverCreate } from '$lib/schemas/receiver';
+import { publish } from '$lib/server/live';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = api((event) => {
@@ -14,5 +15,8 @@ export const GET: RequestHandler = api((event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
 	const input = await readJson(event, receiverCreate);
-	return json(createReceiver(projectId, user.id, input), { status: 201 });
+	const created = createReceiver(projectId, user.id, input);
+	// open pages list receivers: they refetch
+	publish(projectId, { by: user.id, refetch: true });
+	return json(created, { status: 201 });
 });

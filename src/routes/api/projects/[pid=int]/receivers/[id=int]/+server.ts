@@ -4,6 +4,7 @@ import { requireRole } from '$lib/server/authz';
 import { detachParam, idParam } from '$lib/server/params';
 import { deleteReceiver, getReceiver, updateReceiver } from '$lib/server/db/receivers';
 import { receiverPatch } from '$lib/schemas/receiver';
+import { publish } from '$lib/server/live';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = api((event) => {
@@ -17,11 +18,14 @@ export const PATCH: RequestHandler = api(async (event) => {
 	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
 	const id = idParam(event.params.id, 'receiver');
 	const patch = await readJson(event, receiverPatch);
-	return json(updateReceiver(projectId, user.id, id, patch));
+	const after = updateReceiver(projectId, user.id, id, patch);
+	publish(projectId, { by: user.id, refetch: true });
+	return json(after);
 });
 
 export const DELETE: RequestHandler = api((event) => {
 	const { projectId, user } = requireRole(event, event.params.pid, 'programmer');
 	deleteReceiver(projectId, user.id, idParam(event.params.id, 'receiver'), detachParam(event));
+	publish(projectId, { by: user.id, refetch: true });
 	return new Response(null, { status: 204 });
 });

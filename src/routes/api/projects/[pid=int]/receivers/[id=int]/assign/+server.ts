@@ -4,6 +4,7 @@ import { requireRole } from '$lib/server/authz';
 import { idParam } from '$lib/server/params';
 import { assignReceiver } from '$lib/server/db/receivers';
 import { rcAssign } from '$lib/schemas/receiver';
+import { publish } from '$lib/server/live';
 import type { RequestHandler } from './$types';
 
 // Gives the receiver's RC fixtures one channel per parameter. Like a command it
@@ -14,5 +15,7 @@ export const POST: RequestHandler = api(async (event) => {
 	const hasBody =
 		(event.request.headers.get('content-length') ?? '0') !== '0' || event.request.headers.has('content-type');
 	const input = hasBody ? await readJson(event, rcAssign) : rcAssign.parse({});
-	return json(assignReceiver(projectId, user.id, id, input));
+	const result = assignReceiver(projectId, user.id, id, input);
+	if (input.apply) publish(projectId, { ids: [...new Set(result.assigned.map((a) => a.fixtureId))], by: user.id });
+	return json(result);
 });
