@@ -99,7 +99,7 @@ describe('building blocks from the pages alone (Chromium)', () => {
 		await addFx.getByText('Add fixtures', { exact: true }).click();
 		await addFx.getByLabel('Type · mode').selectOption({ label: 'Testworks Deck Tube · HSI 8-bit (3)' });
 		await addFx.getByLabel('How many').fill('2');
-		await addFx.getByLabel('Label', { exact: true }).fill('DECK');
+		await addFx.getByLabel('Label pattern').fill('DECK {n}');
 		await addFx.getByLabel('Universe').selectOption({ label: '1 Deck' });
 		await addFx.getByLabel('Start address').fill('1');
 		await addFx.getByRole('button', { name: 'Add', exact: true }).click();

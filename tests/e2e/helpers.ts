@@ -12,6 +12,11 @@ export function newPage(b: Browser, width = 1366, height = 900, mobile = false):
 
 export const signIn = signInPage;
 
+/** Waits until the page's scripts have hydrated it (the root layout marks <html data-ready>). */
+export async function hydrated(page: Page): Promise<void> {
+	await page.locator('html[data-ready]').waitFor({ state: 'attached', timeout: 15_000 });
+}
+
 /** Waits until the windowed patch table has drawn its first rows. */
 export async function patchRows(page: Page): Promise<void> {
 	await page.locator('[data-row]').first().waitFor({ timeout: 15_000 });

@@ -1,7 +1,7 @@
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { demoProjectId } from '../helpers/revisions';
-import { newPage, screenshot, signIn } from './helpers';
+import { hydrated, newPage, screenshot, signIn } from './helpers';
 import { demoStage } from './launch';
 
 // Screenshots of the building-block pages (issue 16) at the programmer's desk (1440×900) and the
@@ -27,6 +27,7 @@ describe('building-block pages, looked at', () => {
 				await theme(page, mode);
 				await signIn(page, stage.server.url, 'programmer@demo.test');
 				await page.goto(`${stage.server.url}/projects/${pid}/types`);
+				await hydrated(page);
 				const edit = page.getByRole('button', { name: /^Edit / }).first();
 				await edit.click();
 				await page.getByRole('button', { name: 'Save type' }).waitFor();
@@ -44,6 +45,7 @@ describe('building-block pages, looked at', () => {
 				// a restore preview of the demo's own backup; nothing is created by choosing the file
 				const backup = await (await page.request.get(`${stage.server.url}/api/projects/${pid}/export.json`)).body();
 				await page.goto(`${stage.server.url}/projects/${pid}/import`);
+				await hydrated(page);
 				await page.setInputFiles('#restore-file', { name: 'demo.json', mimeType: 'application/json', buffer: backup });
 				await page.getByTestId('restore-preview').getByText('(restored').waitFor();
 				await page.getByTestId('restore-preview').scrollIntoViewIfNeeded();
