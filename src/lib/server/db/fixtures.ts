@@ -86,6 +86,17 @@ function problemMessage(p: FootprintProblem, slots: number): string {
 	}
 }
 
+/** A mode's slot count and further breaks, worked out once per mode rather than once per fixture of a batch. */
+const footprints = new WeakMap<ModeShape, { slots: number; wanted: ReturnType<typeof breakFootprints> }>();
+function footprintOf(mode: ModeShape) {
+	let fp = footprints.get(mode);
+	if (fp === undefined) {
+		fp = { slots: modeSlotCount(mode), wanted: breakFootprints(mode).filter((b) => b.dmxBreak !== 1) };
+		footprints.set(mode, fp);
+	}
+	return fp;
+}
+
 /** Every check that needs the database; answers issues rather than throwing so a batch reports all at once. */
 function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): FieldIssue[] {
 	const issues: FieldIssue[] = [];
@@ -99,14 +110,12 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 	if (f.feed.kind === 'mains' && !ctx.circuits.has(f.feed.circuitId))
 		at(['feed', 'circuitId'], 'No such circuit in this project.');
 	const c = f.control;
-	const params = new Set(mode?.mode.channels.map((ch) => ch.parameter) ?? []);
 	switch (c.kind) {
 		case 'dmx': {
 			if (!ctx.universes.has(c.universeId)) at(['control', 'universeId'], 'No such universe in this project.');
 			if (mode) {
-				const slots = modeSlotCount(mode.mode);
+				const { slots, wanted } = footprintOf(mode.mode);
 				for (const p of resolveDmx(c.address, slots).problems) at(['control', 'address'], problemMessage(p, slots));
-				const wanted = breakFootprints(mode.mode).filter((b) => b.dmxBreak !== 1);
 				(c.breaks ?? []).forEach((b, i) => {
 					const fp = wanted.find((w) => w.dmxBreak === b.dmxBreak);
 					if (fp === undefined) {
@@ -149,6 +158,7 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 			break;
 		}
 		case 'rc': {
+			const params = new Set(mode?.mode.channels.map((ch) => ch.parameter) ?? []);
 			const r = ctx.receivers.get(c.receiverId);
 			if (!r) at(['control', 'receiverId'], 'No such receiver in this project.');
 			for (const [key, ch] of Object.entries(c.channels)) {

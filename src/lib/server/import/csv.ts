@@ -200,11 +200,15 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	}
 	const rows: CsvRow[] = [];
 	const seen = new Map<number, number>();
-	records.slice(1).forEach((rec, i) => {
-		const row = i + 2;
+	// the row's helpers are made once, not once per row (a 20,000-row file)
+	let rec: string[] = [];
+	let row = 0;
+	const get = (f: CsvField) => (columns[f] === undefined ? '' : cell(rec[columns[f]]));
+	const bad = (field: string, message: string) => void issues.push({ row, field, message });
+	records.slice(1).forEach((record, i) => {
+		rec = record;
+		row = i + 2;
 		if (rec.every((c) => c.trim() === '')) return;
-		const get = (f: CsvField) => (columns[f] === undefined ? '' : cell(rec[columns[f]]));
-		const bad = (field: string, message: string) => issues.push({ row, field, message });
 		const num = int(get('number'));
 		if (num === null || num < 1)
 			return bad(
@@ -415,9 +419,11 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 			const creates: { row: CsvRow; input: FixtureCreate }[] = [];
 			const changes: { row: CsvRow; change: FixtureChange; what: string[] }[] = [];
 			const feedNames = { packTypes: listPackTypes(projectId), circuits: listCircuits(projectId) };
+			let at = 0;
+			const bad = (field: string, message: string) => void issues.push({ row: at, field, message });
 			for (const r of rows) {
 				if (badRows.has(r.row)) continue;
-				const bad = (field: string, message: string) => issues.push({ row: r.row, field, message });
+				at = r.row;
 				const before = existing.get(r.number);
 				const fed = r.feed === undefined ? undefined : parseFeed(r.feed, feedNames);
 				if (fed && 'error' in fed) {
