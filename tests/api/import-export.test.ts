@@ -7,7 +7,7 @@ import { makeCrew, signInCrew } from '../helpers/factories';
 import { gdtfZip, PANEL_XML, zeroBomb } from '../helpers/gdtf';
 import { normaliseExport } from '../helpers/project-json';
 import { startServer, type Client, type TestServer } from '../helpers/server';
-import { fixtureTypes, fixtures, universes } from '../../src/lib/server/db/schema';
+import { auditLog, fixtureTypes, fixtures, universes } from '../../src/lib/server/db/schema';
 
 // POST /api/projects/:pid/import (CSV patch, GDTF type), GET …/export.csv and
 // …/export.json, POST /api/projects/import-json, and hostile uploads.
@@ -223,6 +223,60 @@ describe('CSV patch import', () => {
 			[1, { kind: 'dmx', universeId: uni2, address: 101 }],
 			[2, { kind: 'dmx', universeId: uni2, address: 103 }]
 		]);
+	});
+
+	it('the preview shows what apply writes; apply records one audit entry naming the fixtures it created', async () => {
+		const p = await newProject('CSV audit');
+		await makePanelType(p);
+		// fixtures 1 and 2 overlap on slot 2 of universe 1 (Basic takes 2 slots): a conflict both answers list
+		const csv = [
+			'number,maker,model,mode,universe,address',
+			'1,Acme Lamps,Deck Panel,Basic,1,1',
+			'2,Acme Lamps,Deck Panel,Basic,1,2',
+			'3,Acme Lamps,Deck Panel,Basic,3,10'
+		].join('\n');
+		const audit = () => server.db().select().from(auditLog).where(eq(auditLog.projectId, p)).all();
+		const before = audit().length;
+		const preview = await (await importTo(p, csv, 'rig.csv')).json();
+		expect(audit().length).toBe(before);
+		expect(count(fixtures, p)).toBe(0);
+		const res = await importTo(p, csv, 'rig.csv', true);
+		expect(res.status).toBe(201);
+		const applied = await res.json();
+		expect(preview.conflicts.some((c: { message: string }) => /overlap|slot 2/i.test(c.message))).toBe(true);
+		expect({ ...preview, applied: true }).toEqual(applied);
+
+		const made = server.db().select().from(fixtures).where(eq(fixtures.projectId, p)).all();
+		const entries = audit().slice(before);
+		expect(entries.filter((e) => e.action === 'fixture.create')).toEqual([]);
+		const imports = entries.filter((e) => e.action === 'fixture.import');
+		expect(imports).toHaveLength(1);
+		expect(imports[0].after).toEqual({
+			rows: 3,
+			universes: [1, 3],
+			created: made.map((f) => ({ id: f.id, number: f.number })).sort((a, b) => a.number - b.number),
+			updated: []
+		});
+		// the fixture page's history still says how the fixture came to be
+		const page = await (await as.programmer.get(`/projects/${p}/fixtures/2`)).text();
+		expect(page).toContain('added the fixture by CSV import');
+
+		// an update is listed in the file's entry and keeps its own before/after entry
+		const moved = await importTo(p, 'number,universe,address\n2,1,3', 'move.csv', true);
+		expect(moved.status).toBe(201);
+		const later = audit().slice(before + entries.length);
+		const two = made.find((f) => f.number === 2)!;
+		expect(later.find((e) => e.action === 'fixture.import')?.after).toEqual({
+			rows: 1,
+			universes: [],
+			created: [],
+			updated: [{ id: two.id, number: 2 }]
+		});
+		expect(later.find((e) => e.action === 'fixture.update')).toMatchObject({
+			entityId: String(two.id),
+			before: { control: { address: 2 } },
+			after: { control: { address: 3 } }
+		});
 	});
 
 	it('one bad row writes nothing and every bad row is named (header = row 1)', async () => {

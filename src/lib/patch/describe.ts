@@ -326,6 +326,8 @@ export function historyText(action: string, before: unknown, after: unknown, ctx
 	switch (action) {
 		case 'fixture.create':
 			return 'added the fixture';
+		case 'fixture.import':
+			return 'added the fixture by CSV import';
 		case 'fixture.delete':
 			return 'removed the fixture';
 		case 'photo.add':

@@ -59,7 +59,7 @@ export interface AuditRecord {
 	after: unknown;
 }
 
-/** One fixture's entries, newest first: its own changes and the photos added to or removed from it. */
+/** One fixture's entries, newest first: its own changes, the import that created it, and the photos added to or removed from it. */
 export function fixtureAudit(projectId: number, fixtureId: number, limit = 30): AuditRecord[] {
 	const id = String(fixtureId);
 	return db()
@@ -82,6 +82,11 @@ export function fixtureAudit(projectId: number, fixtureId: number, limit = 30): 
 					and(
 						eq(auditLog.entity, 'upload'),
 						sql`coalesce(json_extract(${auditLog.after}, '$.fixtureId'), json_extract(${auditLog.before}, '$.fixtureId')) = ${fixtureId}`
+					),
+					// a CSV import records one entry for the file; it names the fixtures it created
+					and(
+						eq(auditLog.action, 'fixture.import'),
+						sql`exists (select 1 from json_each(${auditLog.after}, '$.created') where json_extract(value, '$.id') = ${fixtureId})`
 					)
 				)
 			)

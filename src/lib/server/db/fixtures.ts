@@ -86,6 +86,17 @@ function problemMessage(p: FootprintProblem, slots: number): string {
 	}
 }
 
+/** A mode's slot count and further breaks, worked out once per mode rather than once per fixture of a batch. */
+const footprints = new WeakMap<ModeShape, { slots: number; wanted: ReturnType<typeof breakFootprints> }>();
+function footprintOf(mode: ModeShape) {
+	let fp = footprints.get(mode);
+	if (fp === undefined) {
+		fp = { slots: modeSlotCount(mode), wanted: breakFootprints(mode).filter((b) => b.dmxBreak !== 1) };
+		footprints.set(mode, fp);
+	}
+	return fp;
+}
+
 /** Every check that needs the database; answers issues rather than throwing so a batch reports all at once. */
 function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): FieldIssue[] {
 	const issues: FieldIssue[] = [];
@@ -99,14 +110,12 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 	if (f.feed.kind === 'mains' && !ctx.circuits.has(f.feed.circuitId))
 		at(['feed', 'circuitId'], 'No such circuit in this project.');
 	const c = f.control;
-	const params = new Set(mode?.mode.channels.map((ch) => ch.parameter) ?? []);
 	switch (c.kind) {
 		case 'dmx': {
 			if (!ctx.universes.has(c.universeId)) at(['control', 'universeId'], 'No such universe in this project.');
 			if (mode) {
-				const slots = modeSlotCount(mode.mode);
+				const { slots, wanted } = footprintOf(mode.mode);
 				for (const p of resolveDmx(c.address, slots).problems) at(['control', 'address'], problemMessage(p, slots));
-				const wanted = breakFootprints(mode.mode).filter((b) => b.dmxBreak !== 1);
 				(c.breaks ?? []).forEach((b, i) => {
 					const fp = wanted.find((w) => w.dmxBreak === b.dmxBreak);
 					if (fp === undefined) {
@@ -149,6 +158,7 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 			break;
 		}
 		case 'rc': {
+			const params = new Set(mode?.mode.channels.map((ch) => ch.parameter) ?? []);
 			const r = ctx.receivers.get(c.receiverId);
 			if (!r) at(['control', 'receiverId'], 'No such receiver in this project.');
 			for (const [key, ch] of Object.entries(c.channels)) {
@@ -176,7 +186,10 @@ function check(ctx: Context, f: FixtureCreate, path: Path, selfId?: number): Fie
 	return issues;
 }
 
+/** The columns a create body sets, as one literal (an import builds this for every row). */
 function columnsOf(f: FixtureCreate) {
+	const c = controlColumns(f.control);
+	const feed = feedColumns(f.feed);
 	return {
 		number: f.number,
 		label: f.label,
@@ -193,8 +206,16 @@ function columnsOf(f: FixtureCreate) {
 		lookSaturation: f.look.saturation ?? null,
 		lookIntensity: f.look.intensity ?? null,
 		lookCct: f.look.cct ?? null,
-		...controlColumns(f.control),
-		...feedColumns(f.feed)
+		controlKind: c.controlKind,
+		universeId: c.universeId,
+		address: c.address,
+		breakAddresses: c.breakAddresses,
+		addressMap: c.addressMap,
+		receiverId: c.receiverId,
+		rcChannels: c.rcChannels,
+		leaderId: c.leaderId,
+		packTypeId: feed.packTypeId,
+		circuitId: feed.circuitId
 	};
 }
 
@@ -272,45 +293,58 @@ function uniqueAsConflict<T>(write: () => T): T {
 	}
 }
 
-export function createFixtures(projectId: number, userId: string, inputs: FixtureCreate[]): FixtureShape[] {
-	return uniqueAsConflict(() => createFixturesTx(projectId, userId, inputs));
+export function createFixtures(
+	projectId: number,
+	userId: string,
+	inputs: FixtureCreate[],
+	audit: 'each' | 'none' = 'each'
+): FixtureShape[] {
+	return uniqueAsConflict(() => createFixturesTx(projectId, userId, inputs, audit));
 }
 
-function createFixturesTx(projectId: number, userId: string, inputs: FixtureCreate[]): FixtureShape[] {
+/**
+ * Every check a create runs (the project's types, modes, universes, feeds, numbers), without writing:
+ * answers the rows the insert would write (without ids). A CSV import's preview runs exactly this.
+ */
+export function checkFixtureCreates(projectId: number, inputs: FixtureCreate[]): Omit<FixtureRow, 'id'>[] {
+	const ctx = loadContext(projectId);
+	const many = inputs.length > 1;
+	const issues = inputs.flatMap((f, i) => check(ctx, f, many ? [i] : []));
+	if (issues.length > 0) refuse(issues);
+	numbersClash(
+		ctx,
+		inputs.map((f, i) => ({ number: f.number, path: many ? [i] : [] }))
+	);
+	const now = new Date();
+	return inputs.map((f) => ({ projectId, ...columnsOf(f), version: 1, createdAt: now, updatedAt: now }));
+}
+
+/**
+ * `audit: 'each'` records one entry per fixture; `'none'` leaves the audit to the caller, for an
+ * import that records one entry for the whole file.
+ */
+function createFixturesTx(
+	projectId: number,
+	userId: string,
+	inputs: FixtureCreate[],
+	audit: 'each' | 'none'
+): FixtureShape[] {
 	return db().transaction(() => {
-		const ctx = loadContext(projectId);
-		const many = inputs.length > 1;
-		const issues = inputs.flatMap((f, i) => check(ctx, f, many ? [i] : []));
-		if (issues.length > 0) refuse(issues);
-		numbersClash(
-			ctx,
-			inputs.map((f, i) => ({ number: f.number, path: many ? [i] : [] }))
-		);
+		const rows = checkFixtureCreates(projectId, inputs);
 		// one prepared statement for the batch: a 20,000-row import is 20,000 runs of it, not 20,000 queries built
-		const now = new Date();
-		const rows: FixtureRow[] = inputs.map((f) => ({
-			id: 0,
-			projectId,
-			...columnsOf(f),
-			version: 1,
-			createdAt: now,
-			updatedAt: now
-		}));
-		const ids = insertMany(
-			fixtures,
-			rows.map(({ id, ...row }) => (void id, row))
-		);
+		const ids = insertMany(fixtures, rows);
 		const shapes = rows.map((row, i) => fixtureShape({ ...row, id: ids[i] }));
-		recordAuditMany(
-			shapes.map((shape) => ({
-				projectId,
-				userId,
-				action: 'fixture.create',
-				entity: 'fixture',
-				entityId: shape.id,
-				after: shape
-			}))
-		);
+		if (audit === 'each')
+			recordAuditMany(
+				shapes.map((shape) => ({
+					projectId,
+					userId,
+					action: 'fixture.create',
+					entity: 'fixture',
+					entityId: shape.id,
+					after: shape
+				}))
+			);
 		return shapes;
 	});
 }

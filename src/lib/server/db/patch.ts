@@ -1,10 +1,12 @@
 import { asc, eq, inArray } from 'drizzle-orm';
 import { randomBytes } from 'node:crypto';
 import {
+	analysePatch,
 	computePatch,
 	defaultChannelCount,
 	breakFootprints,
 	modeSlotCount,
+	type Conflict,
 	type Feed,
 	type FixtureControl,
 	type Mode
@@ -57,48 +59,56 @@ export function controlOf(f: FixtureRow): FixtureControl {
 	}
 }
 
+type ControlColumns = {
+	controlKind: FixtureControl['kind'];
+	universeId: number | null;
+	address: number | null;
+	breakAddresses: { dmxBreak: number; universeId: number; address: number }[] | null;
+	addressMap: Record<string, number> | null;
+	receiverId: number | null;
+	rcChannels: Record<string, number> | null;
+	leaderId: number | null;
+};
+
 /** The control columns a control object sets; every other control column is cleared. */
-export function controlColumns(control: FixtureControl) {
-	const cleared = {
-		universeId: null as number | null,
-		address: null as number | null,
-		breakAddresses: null as { dmxBreak: number; universeId: number; address: number }[] | null,
-		addressMap: null as Record<string, number> | null,
-		receiverId: null as number | null,
-		rcChannels: null as Record<string, number> | null,
-		leaderId: null as number | null
+export function controlColumns(control: FixtureControl): ControlColumns {
+	// one literal filled in place rather than spreads: an import builds this for every row
+	const c: ControlColumns = {
+		controlKind: control.kind,
+		universeId: null,
+		address: null,
+		breakAddresses: null,
+		addressMap: null,
+		receiverId: null,
+		rcChannels: null,
+		leaderId: null
 	};
 	switch (control.kind) {
 		case 'dmx':
-			return {
-				...cleared,
-				controlKind: 'dmx' as const,
-				universeId: control.universeId,
-				address: control.address,
-				breakAddresses:
-					control.breaks !== undefined && control.breaks.length > 0
-						? control.breaks.map((b) => ({ dmxBreak: b.dmxBreak, universeId: b.universeId ?? 0, address: b.address }))
-						: null
-			};
+			c.universeId = control.universeId;
+			c.address = control.address;
+			if (control.breaks !== undefined && control.breaks.length > 0)
+				c.breakAddresses = control.breaks.map((b) => ({
+					dmxBreak: b.dmxBreak,
+					universeId: b.universeId ?? 0,
+					address: b.address
+				}));
+			break;
 		case 'dmx-map':
-			return {
-				...cleared,
-				controlKind: 'dmx-map' as const,
-				universeId: control.universeId,
-				addressMap: { ...control.addresses }
-			};
+			c.universeId = control.universeId;
+			c.addressMap = { ...control.addresses };
+			break;
 		case 'rc':
-			return {
-				...cleared,
-				controlKind: 'rc' as const,
-				receiverId: control.receiverId,
-				rcChannels: { ...control.channels }
-			};
+			c.receiverId = control.receiverId;
+			c.rcChannels = { ...control.channels };
+			break;
 		case 'follow':
-			return { ...cleared, controlKind: 'follow' as const, leaderId: control.leaderId };
+			c.leaderId = control.leaderId;
+			break;
 		default:
-			return { ...cleared, controlKind: 'manual' as const };
+			c.controlKind = 'manual';
 	}
+	return c;
 }
 
 export function fixtureShape(f: FixtureRow): FixtureShape {
@@ -290,6 +300,35 @@ export function loadPatch(projectId: number): PatchData {
 	return computeFor(projectShape(project), types, universeRows, receiverRows, fixtureRows);
 }
 
+function engineInput(
+	project: Project,
+	types: TypeShape[],
+	universeRows: UniverseShape[],
+	receiverRows: ReceiverShape[],
+	fixtureRows: FixtureShape[]
+) {
+	const modeMap = new Map<number, Mode>();
+	for (const t of types) for (const m of t.modes) modeMap.set(m.id, m);
+	return {
+		universes: universeRows,
+		modes: modeMap,
+		fixtures: fixtureRows,
+		receivers: receiverRows,
+		artnetOffset: project.artnetOffset === 0 ? (0 as const) : (1 as const)
+	};
+}
+
+/** computeFor's conflicts alone (an import's summary), without building the per-fixture view. */
+export function conflictsFor(
+	project: Project,
+	types: TypeShape[],
+	universeRows: UniverseShape[],
+	receiverRows: ReceiverShape[],
+	fixtureRows: FixtureShape[]
+): Conflict[] {
+	return analysePatch(engineInput(project, types, universeRows, receiverRows, fixtureRows)).conflicts;
+}
+
 /** Runs the engine over already-loaded shapes (a live patch or a revision snapshot). */
 export function computeFor(
 	project: Project,
@@ -298,15 +337,7 @@ export function computeFor(
 	receiverRows: ReceiverShape[],
 	fixtureRows: FixtureShape[]
 ): PatchData {
-	const modeMap = new Map<number, Mode>();
-	for (const t of types) for (const m of t.modes) modeMap.set(m.id, m);
-	const result = computePatch({
-		universes: universeRows,
-		modes: modeMap,
-		fixtures: fixtureRows,
-		receivers: receiverRows,
-		artnetOffset: project.artnetOffset === 0 ? 0 : 1
-	});
+	const result = computePatch(engineInput(project, types, universeRows, receiverRows, fixtureRows));
 	const footprintById = new Map(result.fixtures.map((f) => [f.fixtureId, f]));
 	const summaryById = new Map(result.universes.map((u) => [u.universeId, u]));
 	return {

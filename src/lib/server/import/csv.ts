@@ -2,19 +2,23 @@ import Papa from 'papaparse';
 import { listCircuits, listPackTypes } from '../db/power';
 import { feedText, parseFeed, sameFeed } from '../power-csv';
 import { DomainError, UnprocessableError } from '../errors';
-import { createFixtures, updateFixtures, type FixtureChange } from '../db/fixtures';
+import { checkFixtureCreates, createFixtures, updateFixtures, type FixtureChange } from '../db/fixtures';
+import { recordAudit } from '../db/audit';
+import { getProject, projectShape } from '../db/projects';
 import { db } from '../db/index';
-import { listFixtures, listTypes, listUniverses, loadPatch } from '../db/patch';
+import { conflictsFor, fixtureShape, listFixtures, listReceivers, listTypes, listUniverses } from '../db/patch';
 import { createUniverses } from '../db/universes';
 import { fixtureCreate, type ControlInput, type FixtureCreate } from '../../schemas/fixture';
 import { universeCreate, type UniverseCreate } from '../../schemas/universe';
 import type { ImportIssue } from './gdtf';
 import type { BreakAddress } from '../../patch/index';
+import type { FixtureShape } from '../../shapes';
 
 // A patch spreadsheet as CSV: one row per fixture. Headers are matched loosely;
 // rows name types by maker + model + mode and universes by number. The whole
-// file is written in one transaction or not at all; the preview runs the same
-// writes and rolls them back, so what it shows is exactly what apply does.
+// file is written in one transaction or not at all. The preview runs the same
+// checks as apply (the fixture creates' checks without their insert; universes
+// and updates written and rolled back), so what it shows is exactly what apply does.
 
 export type CsvField =
 	| 'number'
@@ -196,11 +200,15 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	}
 	const rows: CsvRow[] = [];
 	const seen = new Map<number, number>();
-	records.slice(1).forEach((rec, i) => {
-		const row = i + 2;
+	// the row's helpers are made once, not once per row (a 20,000-row file)
+	let rec: string[] = [];
+	let row = 0;
+	const get = (f: CsvField) => (columns[f] === undefined ? '' : cell(rec[columns[f]]));
+	const bad = (field: string, message: string) => void issues.push({ row, field, message });
+	records.slice(1).forEach((record, i) => {
+		rec = record;
+		row = i + 2;
 		if (rec.every((c) => c.trim() === '')) return;
-		const get = (f: CsvField) => (columns[f] === undefined ? '' : cell(rec[columns[f]]));
-		const bad = (field: string, message: string) => issues.push({ row, field, message });
 		const num = int(get('number'));
 		if (num === null || num < 1)
 			return bad(
@@ -419,9 +427,11 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 			const creates: { row: CsvRow; input: FixtureCreate }[] = [];
 			const changes: { row: CsvRow; change: FixtureChange; what: string[] }[] = [];
 			const feedNames = { packTypes: listPackTypes(projectId), circuits: listCircuits(projectId) };
+			let at = 0;
+			const bad = (field: string, message: string) => void issues.push({ row: at, field, message });
 			for (const r of rows) {
 				if (badRows.has(r.row)) continue;
-				const bad = (field: string, message: string) => issues.push({ row: r.row, field, message });
+				at = r.row;
 				const before = existing.get(r.number);
 				const fed = r.feed === undefined ? undefined : parseFeed(r.feed, feedNames);
 				if (fed && 'error' in fed) {
@@ -546,14 +556,16 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 					});
 				}
 			}
-			// every row is checked even when earlier ones failed, so the answer names all bad rows at once
+			// every row is checked even when earlier ones failed, so the answer names all bad rows at once.
+			// A preview runs the create checks without the insert (the rows it would write, numbered
+			// -1, -2, … for the conflict check); an apply runs the same checks and inserts.
+			let created: FixtureShape[] = [];
 			if (creates.length) {
+				const inputs = creates.map((c) => c.input);
 				try {
-					createFixtures(
-						projectId,
-						userId,
-						creates.map((c) => c.input)
-					);
+					created = apply
+						? createFixtures(projectId, userId, inputs, 'none')
+						: checkFixtureCreates(projectId, inputs).map((row, i) => fixtureShape({ ...row, id: -(i + 1) }));
 				} catch (e) {
 					issues.push(
 						...issuesOf(e, creates.length > 1, (i) => {
@@ -563,9 +575,10 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 					);
 				}
 			}
+			let updated: FixtureShape[] = [];
 			if (changes.length) {
 				try {
-					updateFixtures(
+					updated = updateFixtures(
 						projectId,
 						userId,
 						changes.map((c) => c.change)
@@ -588,11 +601,39 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 					{ code: 'invalid-rows' }
 				);
 			}
-			summary.conflicts = loadPatch(projectId).conflicts.map((c) => ({
+			// conflicts once for the whole file, over the patch as it stands after the writes: the
+			// fixtures read at the start with this file's updates and creates in place of a second read
+			const after = new Map([...existing.values()].map((f) => [f.id, f]));
+			for (const f of [...updated, ...created]) after.set(f.id, f);
+			const project = getProject(projectId);
+			if (!project) throw new Error(`project ${projectId} not found`);
+			summary.conflicts = conflictsFor(
+				projectShape(project),
+				types,
+				listUniverses(projectId),
+				listReceivers(projectId),
+				[...after.values()].sort((a, b) => a.number - b.number)
+			).map((c) => ({
 				kind: c.kind,
 				severity: c.severity,
 				message: c.message
 			}));
+			if (apply && (created.length > 0 || updated.length > 0 || summary.universes.length > 0))
+				// one entry for the whole file (the created fixtures are in their table; each update
+				// also keeps its own before/after entry from updateFixtures)
+				recordAudit({
+					projectId,
+					userId,
+					action: 'fixture.import',
+					entity: 'project',
+					entityId: projectId,
+					after: {
+						rows: summary.rows,
+						universes: summary.universes.map((u) => u.number),
+						created: created.map((f) => ({ id: f.id, number: f.number })),
+						updated: updated.map((f) => ({ id: f.id, number: f.number }))
+					}
+				});
 			if (!apply) throw new Rollback(summary);
 			return summary;
 		});
