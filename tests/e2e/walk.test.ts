@@ -1,0 +1,58 @@
+import { describe, expect, it } from 'vitest';
+import { demoProjectId } from '../helpers/revisions';
+import { demoStage, screenshot, signInPage } from './launch';
+
+// "Done means a person can do it": what the people walking the pages read. Found by looking at
+// screenshots of the demo: the fixture page showed power codes (`circuit-over-80`) and an Art-Net
+// port-address for a wired-DMX universe, and its channel table ran "Bits" into "Address" on a phone.
+
+const stage = demoStage();
+const PHONE = { width: 390, height: 844 };
+const CODES = /circuit-over-\d+|over-current|voltage-range|air-travel-|no-power-data/;
+
+describe('walking the pages as the people who use them', () => {
+	it('an electrician on a phone reads power warnings in words and only the addressing that applies to the universe', async () => {
+		const pid = demoProjectId(stage.server.db());
+		const phone = await stage.browser.page(PHONE, { mobile: true });
+		await signInPage(phone, stage.server.url, 'electrician@demo.test');
+
+		// 106 is on universe 1 (wired DMX) and the Wheelhouse ring, loaded above 80 % of its breaker (demo.ts)
+		await phone.goto(`${stage.server.url}/projects/${pid}/fixtures/106`);
+		const power = phone.locator('[data-fixture-power]');
+		await power.getByText('On mains').waitFor();
+		const main = (await phone.locator('main').textContent()) ?? '';
+		expect(main).not.toMatch(CODES);
+		expect(await power.textContent()).toContain('Circuit above 80 %');
+		// an Art-Net port-address means nothing on a wired DMX line (Art-Net 4: it addresses Art-Net packets)
+		expect(main).toContain('Wired DMX');
+		expect(main).not.toContain('Art-Net port-address');
+
+		// the channel table's columns keep apart on a 390 px screen
+		const heads = phone.locator('thead th');
+		const bits = (await heads.nth(1).boundingBox())!;
+		const address = (await heads.nth(2).boundingBox())!;
+		const bitsText = await heads.nth(1).evaluate((th) => {
+			const r = document.createRange();
+			r.selectNodeContents(th);
+			return r.getBoundingClientRect().right;
+		});
+		expect(address.x - bitsText).toBeGreaterThanOrEqual(8);
+		expect(bits.width).toBeGreaterThan(0);
+		await screenshot(phone, 'walk-fixture-106-phone');
+
+		// 137 is on universe 4, sent over Art-Net: there the port-address is what the node is set to
+		await phone.goto(`${stage.server.url}/projects/${pid}/fixtures/137`);
+		expect(await phone.locator('main').textContent()).toMatch(/Art-Net port-address \d+/);
+	});
+
+	it('the power page names each warning in words', async () => {
+		const pid = demoProjectId(stage.server.db());
+		const desk = await stage.browser.page({ width: 1440, height: 900 });
+		await signInPage(desk, stage.server.url, 'programmer@demo.test');
+		await desk.goto(`${stage.server.url}/projects/${pid}/power`);
+		await desk.getByText('Saloon practicals (B10)').first().waitFor();
+		const text = (await desk.locator('main').textContent()) ?? '';
+		expect(text).not.toMatch(CODES);
+		expect(text).toContain('Breaker will trip');
+	});
+});
