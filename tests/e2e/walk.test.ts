@@ -55,4 +55,28 @@ describe('walking the pages as the people who use them', () => {
 		expect(text).not.toMatch(CODES);
 		expect(text).toContain('Breaker will trip');
 	});
+
+	it('the universes page counts in words and offers each slot map as a button', async () => {
+		const pid = demoProjectId(stage.server.db());
+		const desk = await stage.browser.page({ width: 1440, height: 900 });
+		await signInPage(desk, stage.server.url, 'programmer@demo.test');
+		await desk.goto(`${stage.server.url}/projects/${pid}/universes`);
+		const three = desk.locator('[data-universe="3"]');
+		// universe 3 holds the demo's one overlap (fixtures 132 and 136)
+		expect(await three.textContent()).toMatch(/10 fixtures · .*1 error\b/s);
+		expect(await desk.locator('main').textContent()).not.toContain('(s)');
+		await three.getByRole('link', { name: 'Slot map of universe 3' }).click();
+		await desk.locator('[data-slot-map]').waitFor();
+		expect(await desk.locator('[data-slot-counts]').textContent()).toMatch(/2 overlapping slots · \d+ linked slots?\./);
+		// universe 3 goes over wireless DMX: no multicast group or port-address applies, and kinds read as words
+		const map = (await desk.locator('main').textContent()) ?? '';
+		expect(map).toContain('Wireless DMX');
+		expect(map).not.toMatch(/dmx-wireless|sACN group|Art-Net port-address|overlap:|linked:/);
+		expect(map).toContain('Overlap: Fixtures 132 and 136');
+		// universe 2 goes over sACN: its multicast group is 239.255.0.2 (ANSI E1.31 §9.3.1: 239.255.hi.lo)
+		await desk.goto(`${stage.server.url}/projects/${pid}/universes/2`);
+		const facts = (await desk.locator('[data-universe-facts]').textContent()) ?? '';
+		expect(facts).toContain('239.255.0.2');
+		expect(facts).not.toContain('Art-Net');
+	});
 });
