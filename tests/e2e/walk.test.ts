@@ -40,6 +40,10 @@ describe('walking the pages as the people who use them', () => {
 		expect(bits.width).toBeGreaterThan(0);
 		await screenshot(phone, 'walk-fixture-106-phone');
 
+		// a conflict on the fixture page is named in words ('Overlap:'), not by its severity code ('error:')
+		await phone.goto(`${stage.server.url}/projects/${pid}/fixtures/132`);
+		expect(await phone.locator('main').textContent()).toContain('Overlap: Fixtures 132 and 136');
+
 		// 137 is on universe 4, sent over Art-Net: there the port-address is what the node is set to
 		await phone.goto(`${stage.server.url}/projects/${pid}/fixtures/137`);
 		expect(await phone.locator('main').textContent()).toMatch(/Art-Net port-address \d+/);
