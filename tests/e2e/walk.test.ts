@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { demoProjectId } from '../helpers/revisions';
+import { gdtfZip, TWO_BREAK_XML } from '../helpers/gdtf';
 import { demoStage, screenshot, signInPage } from './launch';
 
 // "Done means a person can do it": what the people walking the pages read. Found by looking at
@@ -82,5 +83,42 @@ describe('walking the pages as the people who use them', () => {
 		const facts = (await desk.locator('[data-universe-facts]').textContent()) ?? '';
 		expect(facts).toContain('239.255.0.2');
 		expect(facts).not.toContain('Art-Net');
+	});
+
+	it('a producer signs off by link on a phone and the page stays true after the approval', async () => {
+		const pid = demoProjectId(stage.server.db());
+		const programmer = await stage.server.signIn('programmer@demo.test');
+		expect((await programmer.post(`/api/projects/${pid}/revisions`, { note: 'For the producer' })).status).toBe(201);
+		const res = await programmer.post(`/api/projects/${pid}/review-links`, { revision: 'latest' });
+		const { url } = (await res.json()) as { url: string };
+		const phone = await stage.browser.page(PHONE, { mobile: true });
+		await phone.goto(`${stage.server.url}${new URL(url).pathname}`);
+		await phone.getByLabel('Your name').fill('Pat Producer');
+		await phone.getByText('Approve this revision').click();
+		await phone.getByRole('button', { name: 'Send sign-off' }).click();
+		await phone.getByTestId('signed').waitFor();
+		const text = (await phone.locator('main').textContent()) ?? '';
+		expect(text).toContain('Approved');
+		// it read "No revision of this project has been approved yet" right under the approval
+		expect(text).not.toContain('approved yet');
+		expect(text).toContain('No earlier revision of this project was approved');
+	});
+
+	it('editing a two-break type names the break of each offset', async () => {
+		const pid = demoProjectId(stage.server.db());
+		const programmer = await stage.server.signIn('programmer@demo.test');
+		const form = new FormData();
+		form.set('file', new Blob([Buffer.from(gdtfZip(TWO_BREAK_XML))]), 'twin.gdtf');
+		form.set('apply', 'true');
+		expect((await programmer.fetch(`/api/projects/${pid}/import`, { method: 'POST', body: form })).status).toBe(201);
+		const desk = await stage.browser.page({ width: 1440, height: 900 });
+		await signInPage(desk, stage.server.url, 'programmer@demo.test');
+		await desk.goto(`${stage.server.url}/projects/${pid}/types`);
+		await desk.getByRole('button', { name: /Edit.*Twin Feed/ }).click();
+		// Twin Feed's mode (tests/helpers/gdtf.ts): intensity 16-bit and red on break 1, green and blue on break 2;
+		// channel 3 (green) at offset 1 read as if it sat on intensity's slot 1 (DIN SPEC 15800: each break counts from 1)
+		await desk.getByLabel('Mode 1 channel 3 offset in DMX break 2').waitFor();
+		expect(await desk.locator('[data-slot-count]').first().textContent()).toContain('6 slots in break 1');
+		await screenshot(desk, 'walk-types-two-break-desk');
 	});
 });
