@@ -121,4 +121,19 @@ describe('walking the pages as the people who use them', () => {
 		expect(await desk.locator('[data-slot-count]').first().textContent()).toContain('6 slots in break 1');
 		await screenshot(desk, 'walk-types-two-break-desk');
 	});
+
+	it('on a phone the current tab of the project is in view, not past the edge of the tab row', async () => {
+		const pid = demoProjectId(stage.server.db());
+		const phone = await stage.browser.page(PHONE, { mobile: true });
+		await signInPage(phone, stage.server.url, 'electrician@demo.test');
+		for (const part of ['power', 'revisions', 'members']) {
+			await phone.goto(`${stage.server.url}/projects/${pid}/${part}`);
+			const row = (await phone.getByRole('navigation', { name: 'Project sections' }).boundingBox())!;
+			const tab = phone.getByRole('navigation', { name: 'Project sections' }).locator('[aria-current="page"]');
+			await expect
+				.poll(async () => (await tab.boundingBox())!.x + (await tab.boundingBox())!.width)
+				.toBeLessThanOrEqual(row.x + row.width - 39);
+			expect((await tab.boundingBox())!.x).toBeGreaterThanOrEqual(row.x);
+		}
+	});
 });
