@@ -31,3 +31,8 @@ export function isoDateTime(w: When): string {
 	const d = toDate(w);
 	return Number.isNaN(d.getTime()) ? '' : `${d.toISOString().slice(0, 16).replace('T', ' ')}Z`;
 }
+
+/** "1 fixture", "14 fixtures", "0 errors": a count with its noun in the number it takes (English). */
+export function count(n: number, one: string, many = `${one}s`): string {
+	return `${n} ${n === 1 ? one : many}`;
+}

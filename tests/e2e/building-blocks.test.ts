@@ -128,7 +128,7 @@ describe('building blocks from the pages alone (Chromium)', () => {
 		const dialog = page.getByRole('dialog');
 		const named = await dialog.getByTestId('type-users').locator('li').allTextContents();
 		expect(named.map((t) => t.replace(/\s+/g, ' ').trim())).toEqual(['1 DECK 1', '2 DECK 2']);
-		await dialog.getByLabel('Move them to').selectOption({ label: 'HSI 16-bit · 4 slot(s)' });
+		await dialog.getByLabel('Move them to').selectOption({ label: 'HSI 16-bit · 4 slots' });
 		await screenshot(page, 'building-blocks-delete-mode-dialog');
 		await dialog.getByRole('button', { name: 'Move them and delete' }).click();
 		await status(page, 'Mode deleted from Testworks Deck Tube 2.');

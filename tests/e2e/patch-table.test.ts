@@ -129,9 +129,7 @@ describe('the universe map', () => {
 		expect(await page.locator('[data-slot="41"]').getAttribute('data-overlap')).toBeNull();
 		expect(await page.locator('[data-slot="41"]').getAttribute('aria-label')).toMatch(/linked \(intended\)/);
 		expect(await page.locator('[data-overlap]').count()).toBe(2);
-		expect(await page.locator('[data-slot-counts]').textContent()).toMatch(
-			/2 overlapping slot\(s\) · \d+ linked slot\(s\)/
-		);
+		expect(await page.locator('[data-slot-counts]').textContent()).toMatch(/2 overlapping slots · \d+ linked slots?/);
 		expect(await page.locator('[data-slot-map] [tabindex="0"]').count()).toBe(1);
 		await page.locator('[data-slot="1"]').focus();
 		await page.keyboard.press('ArrowRight');

@@ -61,6 +61,21 @@ const KIND_RANK: Record<ConflictKind, number> = {
 	'line-overload': 10,
 	linked: 11
 };
+/** What people read for each kind on pages; the codes stay in the API. */
+export const CONFLICT_KIND_LABELS: Record<ConflictKind, string> = {
+	'unknown-mode': 'Unknown mode',
+	'missing-leader': 'Leader missing',
+	'follow-cycle': 'Followers in a loop',
+	'out-of-range': 'Address out of range',
+	overflow: 'Past slot 512',
+	overlap: 'Overlap',
+	'rc-collision': 'Radio channel clash',
+	shared: 'Shared slots',
+	'link-mismatch': 'Link group mismatch',
+	'rc-unassigned': 'No radio channel',
+	'line-overload': 'Line overloaded',
+	linked: 'Link group'
+};
 const SEVERITY: Record<ConflictKind, Conflict['severity']> = {
 	'unknown-mode': 'error',
 	'missing-leader': 'error',

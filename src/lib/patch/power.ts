@@ -43,6 +43,22 @@ export const POWER_WARNING_CODES = [
 	'no-power-data'
 ] as const;
 export type PowerWarningCode = (typeof POWER_WARNING_CODES)[number];
+/** What people read on pages and sheets; the codes stay in the API. */
+export const POWER_WARNING_LABELS: Record<PowerWarningCode, string> = {
+	'over-current': 'More current than the pack gives',
+	'voltage-range': "Outside the fixture's voltage range",
+	'air-travel-approval': "Flying needs the airline's approval",
+	'air-travel-forbidden': 'Not allowed as passenger baggage',
+	'circuit-over-80': 'Circuit above 80 %',
+	'circuit-over-100': 'Breaker will trip',
+	'no-power-data': 'No draw known'
+};
+/** Errors stop the plan working (a tripped breaker, a pack that cannot feed or fly); the rest are warnings. */
+export function powerWarningSeverity(code: PowerWarningCode): 'error' | 'warning' {
+	return code === 'circuit-over-100' || code === 'over-current' || code === 'air-travel-forbidden'
+		? 'error'
+		: 'warning';
+}
 export interface PowerWarning {
 	code: PowerWarningCode;
 	message: string;
