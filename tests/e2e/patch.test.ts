@@ -54,7 +54,7 @@ describe('patch pages in the browser', () => {
 		const conflictCells = page.locator('[data-row] [data-col="conflicts"]');
 		expect(await conflictCells.nth(0).textContent()).toContain('overlap');
 		expect(await conflictCells.nth(1).textContent()).toContain('overlap');
-		expect(await page.locator('[data-conflict-list]').textContent()).toMatch(/overlap.*slots 3–4 of universe 9/);
+		expect(await page.locator('[data-conflict-list]').textContent()).toMatch(/Overlap.*slots 3–4 of universe 9/);
 		await screenshot(page, 'patch-overlap');
 
 		await page.goto(`${stage.server.url}/projects/${pid}/universes/9`);
