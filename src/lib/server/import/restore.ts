@@ -2,7 +2,7 @@ import { and, eq, sql } from 'drizzle-orm';
 import { now } from '../clock';
 import { DomainError } from '../errors';
 import { db } from '../db/index';
-import { getProject, projectShape, type Project } from '../db/projects';
+import type { Project } from '../db/projects';
 import { fixtures, fixtureTypes, modes, receivers, universes } from '../db/schema';
 import type { BackupPreview } from '../../shapes';
 import { checkBackup, restoreBackup } from './json';
@@ -87,8 +87,6 @@ export async function previewRestore(userId: string, bytes: Uint8Array): Promise
 export async function restoreRenamed(userId: string, bytes: Uint8Array): Promise<Project> {
 	const checked = await checkBackup(bytes);
 	const renamed = { ...checked, project: { ...checked.project, name: restoredName(checked.project.name) } };
-	return db().transaction(() => {
-		const p = restoreBackup(userId, renamed);
-		return projectShape(getProject(p.id)!, 'owner');
-	});
+	// restoreBackup writes in one transaction and answers the owner's view of the new project
+	return restoreBackup(userId, renamed);
 }
