@@ -3,6 +3,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth/index';
 import { compressResponse } from '$lib/server/compress';
 import { readSession } from '$lib/server/auth/session';
+import { pageCache } from '$lib/server/page-cache';
 import { db } from '$lib/server/db/index';
 import { purgeRevokedSessions } from '$lib/server/db/users';
 import { retryOutbox } from '$lib/server/mail/outbox';
@@ -87,7 +88,15 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 // (SvelteKit compares If-None-Match with the final ETag, coding suffix included, after every hook)
 const compress: Handle = async ({ event, resolve }) => compressResponse(event.request, await resolve(event));
 
-export const handle = sequence(compress, limitSignIn, limitSignInLinks, authHandle, readUser, securityHeaders);
+export const handle = sequence(
+	compress,
+	limitSignIn,
+	limitSignInLinks,
+	authHandle,
+	readUser,
+	pageCache,
+	securityHeaders
+);
 
 export const handleError: HandleServerError = ({ error, status }) => {
 	if (status !== 404) console.error(error);

@@ -27,6 +27,14 @@ const verified = new LRUCache<string, Verified>({ max: 5_000, ttl: 60_000 });
 // a cookie that failed to decrypt, remembered briefly so garbage costs one decrypt, not one per request
 const rejected = new LRUCache<string, true>({ max: 5_000, ttl: 60_000 });
 
+// requests whose session cookie was re-issued: their answer must carry the new cookie (page-cache.ts)
+const renewed = new WeakSet<Cookies>();
+
+/** True when readSession re-issued this request's session cookie. */
+export function sessionRenewed(cookies: Cookies): boolean {
+	return renewed.has(cookies);
+}
+
 export interface SessionUser {
 	id: string;
 	email: string;
@@ -94,6 +102,7 @@ export async function readSession(cookies: Cookies, secure: boolean): Promise<Se
 			secure,
 			maxAge: SESSION_MAX_AGE_S
 		});
+		renewed.add(cookies);
 	}
 	return { id: session.sub, email: state.email, name: state.name };
 }

@@ -378,7 +378,8 @@ const MAX_CACHED_PROJECTS = 16;
 let counter:
 	{ client: unknown; changes: { get(): unknown }; dataVersion: { get(): unknown }; epoch: string } | undefined;
 
-function changeKey(): string {
+/** Names the database state: moves with every write by this process or any other connection. */
+export function changeKey(): string {
 	const client = db().$client;
 	// prepared once: better-sqlite3's pragma() prepares its statement anew on every call
 	if (counter?.client !== client)
