@@ -19,6 +19,8 @@ export function matches(ifNoneMatch: string | null, version: string): boolean {
 	});
 }
 
+const SMALL_BODY_BYTES = 64 * 1024;
+
 export function versionedJson(request: Request, answer: VersionedJson): Response {
 	const { version } = answer;
 	const headers = {
@@ -28,5 +30,10 @@ export function versionedJson(request: Request, answer: VersionedJson): Response
 		vary: 'accept-encoding'
 	};
 	if (matches(request.headers.get('if-none-match'), version)) return new Response(null, { status: 304, headers });
-	return new Response(answer.bytes() as Uint8Array<ArrayBuffer>, { headers });
+	const bytes = answer.bytes();
+	// the length lets compress.ts pass a small answer by without reading it; a small body goes as its
+	// text, which undici wraps more cheaply than bytes, a large one as the bytes encoded once per change
+	return new Response(bytes.byteLength < SMALL_BODY_BYTES ? answer.json : (bytes as Uint8Array<ArrayBuffer>), {
+		headers: { ...headers, 'content-length': String(bytes.byteLength) }
+	});
 }
