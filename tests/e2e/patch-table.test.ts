@@ -119,6 +119,25 @@ describe('the patch table by keyboard', () => {
 	});
 });
 
+describe('the column chooser', () => {
+	// The table is built in the browser only (the server renders no rows); the chooser draws its
+	// list when opened, so it must still list the columns and hide one when it is unticked.
+	it('lists the columns once opened and hides the one unticked', async () => {
+		const page = await newPage(stage.browser);
+		await signIn(page, stage.server.url, 'viewer@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
+		await patchRows(page);
+		expect(await page.locator('[role=columnheader]').allTextContents()).toContainEqual(
+			expect.stringContaining('Label')
+		);
+		await page.getByText('Columns', { exact: true }).click();
+		await page.getByRole('checkbox', { name: 'Label' }).uncheck();
+		const headers = await page.locator('[role=columnheader]').allTextContents();
+		expect(headers.some((h) => h.startsWith('Label'))).toBe(false);
+		expect(headers.some((h) => h.startsWith('Position'))).toBe(true);
+	});
+});
+
 describe('the universe map', () => {
 	it('draws a link group as one intended block, counts it apart from overlaps, and is one tab stop with arrow keys', async () => {
 		const page = await newPage(stage.browser);
