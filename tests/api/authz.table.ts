@@ -59,7 +59,7 @@ export interface Ctx {
 	fixture(kind?: FixtureKind): Promise<{ id: number; kind: FixtureKind }>;
 	photo(fixtureId: number): Promise<{ id: number }>;
 	/** a review link of revision 1, made by the owner */
-	reviewLink(): Promise<{ id: number }>;
+	reviewLink(): Promise<{ id: number; url: string }>;
 	/** a new user who is a viewer of this project */
 	member(): Promise<{ userId: string }>;
 	base: { typeId: number; modeId: number; universeId: number; receiverId: number };
@@ -165,7 +165,8 @@ export const ROUTES: Row[] = [
 	row('POST',   '/api/projects/import-json',                          [201, 201, 201, 201, 201, 401, 401], async (c) => ({ body: await (await c.owner.get(`/api/projects/${c.pid}/export.json`)).json() })),
 	// authorised by the token in the path, whoever holds it
 	row('GET',    '/api/review/[token]',                                [200, 200, 200, 200, 200, 200, 200]),
-	row('POST',   '/api/review/[token]/signoff',                        [201, 201, 201, 201, 201, 201, 201], () => ({ body: { name: 'Probe Producer', decision: 'approved', comment: '' } })),
+	// a link decides once per revision, so each caller signs through a link of its own
+	row('POST',   '/api/review/[token]/signoff',                        [201, 201, 201, 201, 201, 201, 201], async (c) => ({ params: { token: new URL((await c.reviewLink()).url).pathname.split('/').pop()! }, body: { name: 'Probe Producer', decision: 'approved', comment: '' } })),
 	row('GET',    '/api/review/[token]/sheets/[sheet]',                 [200, 200, 200, 200, 200, 200, 200], () => ({ params: { sheet: 'radio.pdf' } }))
 ];
 

@@ -1,8 +1,10 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { eq } from 'drizzle-orm';
+import { unflatten } from 'devalue';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { fixtures, reviewLinks } from '../../src/lib/server/db/schema';
 import { addMember, makeProject, makeUser, PASSWORD } from '../helpers/factories';
+import { fingerprint } from '../helpers/fingerprint';
 import { demoProjectId, twoDmxFixtures, waitForMail } from '../helpers/revisions';
 import { startServer, type Client, type TestServer } from '../helpers/server';
 
@@ -293,5 +295,72 @@ describe('sheets through a review link', () => {
 		} finally {
 			await s.stop();
 		}
+	});
+});
+
+// Last in the file: it makes a revision, and its decisions are requests for changes, so no
+// approval moves under the tests above.
+describe('one decision per link and revision', () => {
+	const signoff = (token: string, body: Record<string, string>) =>
+		server.anonymous().post(`/api/review/${token}/signoff`, body);
+	const formSignoff = async (token: string, fields: Record<string, string>) => {
+		const res = await server.anonymous().fetch(`/review/${token}?/signoff`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/x-www-form-urlencoded', 'x-sveltekit-action': 'true' },
+			body: new URLSearchParams(fields).toString()
+		});
+		const body = (await res.json()) as { type: string; status: number; data: string };
+		return { ...body, data: body.data ? (unflatten(JSON.parse(body.data)) as { message: string }) : undefined };
+	};
+
+	it('a link that decided shows the decision and refuses a second one, by API and by form, writing nothing', async () => {
+		const token = tokenOf((await makeLink(programmer, { revision: 1 })).url);
+		const first = await signoff(token, { name: 'Firm Producer', decision: 'changes-requested', comment: 'Move 12' });
+		expect(first.status).toBe(201);
+		const review = await (await server.anonymous().get(`/api/review/${token}`)).json();
+		expect(review.link.signoff).toEqual({
+			decision: 'changes-requested',
+			name: 'Firm Producer',
+			comment: 'Move 12',
+			at: expect.any(String),
+			revision: 1
+		});
+
+		const before = fingerprint(server.db(), pid);
+		const again = await signoff(token, { name: 'Other Person', decision: 'approved', comment: '' });
+		expect(again.status).toBe(409);
+		const body = await again.json();
+		expect(body.error.code).toBe('already-decided');
+		expect(body.error.message).toMatch(/already.*revision 1.*Firm Producer/);
+		expect(body.signoff).toEqual(review.link.signoff);
+		const form = await formSignoff(token, { name: 'Other Person', decision: 'approved', comment: '' });
+		expect(form).toMatchObject({ type: 'failure', status: 409 });
+		expect(form.data?.message).toMatch(/already/);
+		expect(fingerprint(server.db(), pid)).toBe(before);
+		const revision = await (await viewer.get(`/api/projects/${pid}/revisions/1`)).json();
+		expect(revision.signoffs.filter((s: { name: string }) => s.name === 'Other Person')).toEqual([]);
+
+		// another link to the same revision is another decision
+		const other = tokenOf((await makeLink(programmer, { revision: 1 })).url);
+		expect((await (await server.anonymous().get(`/api/review/${other}`)).json()).link.signoff).toBeNull();
+		expect((await signoff(other, { name: 'Second Producer', decision: 'approved', comment: '' })).status).toBe(201);
+	});
+
+	it('an "always the latest" link decides again once a new revision is behind it', async () => {
+		const token = tokenOf((await makeLink(programmer, { revision: 'latest' })).url);
+		const latest = (await (await server.anonymous().get(`/api/review/${token}`)).json()).revision.number as number;
+		expect((await signoff(token, { name: 'Late Producer', decision: 'changes-requested', comment: '' })).status).toBe(
+			201
+		);
+		const form = await formSignoff(token, { name: 'Late Producer', decision: 'changes-requested', comment: '' });
+		expect(form).toMatchObject({ type: 'failure', status: 409 });
+
+		expect((await programmer.post(`/api/projects/${pid}/revisions`, { note: 'After the notes' })).status).toBe(201);
+		const review = await (await server.anonymous().get(`/api/review/${token}`)).json();
+		expect(review.revision.number).toBe(latest + 1);
+		expect(review.link.signoff).toBeNull();
+		const accepted = await formSignoff(token, { name: 'Late Producer', decision: 'changes-requested', comment: '' });
+		expect(accepted).toMatchObject({ type: 'redirect' });
+		expect((await signoff(token, { name: 'Late Producer', decision: 'approved', comment: '' })).status).toBe(409);
 	});
 });

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import type { BrowserContext, Page } from 'playwright-core';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { demoProjectId } from '../helpers/revisions';
-import { patchRows } from './helpers';
+import { hydrated, patchRows } from './helpers';
 import { demoStage, screenshot, signInPage } from './launch';
 
 // Issue 19: axe-core (WCAG 2.1 A and AA rules) finds nothing on any page of the app, each visited by
@@ -36,6 +36,17 @@ beforeAll(async () => {
 	const link = (await (await programmer.post(`/api/projects/${pid}/review-links`, { revision: 'latest' })).json()) as {
 		url: string;
 	};
+	// a link that has decided: its page shows the decision instead of the form
+	const decided = (await (await programmer.post(`/api/projects/${pid}/review-links`, { revision: 1 })).json()) as {
+		url: string;
+	};
+	const decidedPath = new URL(decided.url).pathname;
+	const signed = await server.anonymous().post(`/api/review/${decidedPath.split('/').pop()}/signoff`, {
+		name: 'Axe Producer',
+		decision: 'approved',
+		comment: ''
+	});
+	expect(signed.status).toBe(201);
 	const p = `/projects/${pid}`;
 	visits = [
 		{ path: '/signin', who: 'nobody' },
@@ -46,10 +57,13 @@ beforeAll(async () => {
 		{ path: '/account/password/not-a-real-token', who: 'nobody' },
 		{ path: '/invite/not-a-real-token', who: 'nobody' },
 		{ path: new URL(link.url).pathname, who: 'nobody' },
+		{ path: decidedPath, who: 'nobody', ready: (pg) => pg.getByTestId('link-decision').waitFor() },
 		{ path: '/', who: 'programmer' },
 		{ path: '/account', who: 'programmer' },
 		{ path: p, who: 'programmer' },
 		{ path: `${p}/patch`, who: 'programmer', ready: patchRows },
+		// fixtures selected: the selection toolbar, its More panel open on a phone
+		{ path: `${p}/patch?selected`, who: 'programmer', ready: selectionOpen },
 		{ path: `${p}/universes`, who: 'programmer' },
 		{ path: `${p}/universes/3`, who: 'programmer', ready: (pg) => pg.locator('[data-slot-map]').waitFor() },
 		{ path: `${p}/radio`, who: 'programmer' },
@@ -72,6 +86,17 @@ beforeAll(async () => {
 		await context.close();
 	}
 });
+
+async function selectionOpen(page: Page): Promise<void> {
+	await patchRows(page);
+	await hydrated(page);
+	for (const n of [104, 105]) await page.getByLabel(`Select fixture ${n}`).check();
+	const more = page.getByRole('toolbar', { name: 'Selected fixtures' }).getByRole('button', { name: 'More' });
+	if (await more.isVisible()) {
+		await more.click();
+		await page.locator('[data-selection-more] button').first().waitFor();
+	}
+}
 
 /** The violations on the page, and whether the text-contrast rule ran at all (a page with no text checked would pass vacuously). */
 async function axe(page: Page): Promise<{ violations: string[]; contrastChecked: boolean }> {

@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { demoProjectId } from '../helpers/revisions';
 import { gdtfZip, TWO_BREAK_XML, VALUES_XML } from '../helpers/gdtf';
+import { channels, makeFixture, makeType, makeUniverse } from '../helpers/patch-factories';
+import { hydrated } from './helpers';
 import { demoStage, screenshot, signInPage } from './launch';
 
 // A mode over two DMX breaks (DIN SPEC 15800 DMX mode): the GDTF preview names each break's
@@ -132,6 +134,59 @@ describe('DMX breaks in the browser', () => {
 		expect(await twin.locator('summary', { hasText: 'Split' }).textContent()).toContain('6 + 4 slots (breaks 1 and 2)');
 		await twin.scrollIntoViewIfNeeded();
 		await screenshot(page, 'breaks-types-desk');
+		await page.close();
+	});
+
+	it('auto-address asks where each further break goes, follow on or a universe, and shows where each went', async () => {
+		const db = stage.server.db();
+		const pid = demoProjectId(db);
+		const [u1, u2] = [makeUniverse(db, pid, 40), makeUniverse(db, pid, 41)];
+		// 6 slots on break 1, 4 on break 2
+		const { type, modeIds } = makeType(
+			db,
+			pid,
+			{ Split: [...channels(6), ...channels(4).map((c) => ({ ...c, parameter: `b2-${c.parameter}`, dmxBreak: 2 }))] },
+			'Split Batten'
+		);
+		for (const number of [980, 981])
+			makeFixture(db, { projectId: pid, number, label: `SPLIT ${number}`, typeId: type.id, modeId: modeIds.Split });
+
+		const page = await stage.browser.page(DESK);
+		await signInPage(page, stage.server.url, 'programmer@demo.test');
+		await page.goto(`${stage.server.url}/projects/${pid}/patch`);
+		await hydrated(page);
+		await page.getByLabel('Search').fill('SPLIT');
+		for (const n of [980, 981]) await page.getByLabel(`Select fixture ${n}`).check();
+		await page
+			.getByRole('toolbar', { name: 'Selected fixtures' })
+			.getByRole('button', { name: 'Auto-address…' })
+			.click();
+		const dialog = page.getByRole('dialog');
+		await dialog.getByRole('combobox').first().selectOption(String(u1.id));
+		const break2 = dialog.getByLabel('Break 2');
+		// follows on by default: break 2 right after break 1, in break 1's universe
+		expect(await break2.inputValue()).toBe('');
+		await dialog.getByRole('button', { name: 'Preview' }).click();
+		const preview = dialog.locator('[data-preview]');
+		await expect.poll(() => preview.textContent()).toContain('40.1');
+		expect(await preview.locator('li').first().textContent()).toMatch(/40\.1.*break 2.*40\.7/s);
+
+		await break2.selectOption(String(u2.id));
+		await dialog.getByRole('button', { name: 'Preview' }).click();
+		await expect.poll(() => preview.locator('li').first().textContent()).toMatch(/40\.1.*break 2.*41\.1/s);
+		expect(await preview.locator('li').nth(1).textContent()).toMatch(/40\.7.*break 2.*41\.5/s);
+		await screenshot(page, 'breaks-autoaddress-desk');
+		await dialog.getByRole('button', { name: 'Apply' }).click();
+		await page.locator('[data-notice]', { hasText: 'Placed 2 fixture(s) (break 2 in universe 41).' }).waitFor();
+
+		const programmer = await stage.server.signIn('programmer@demo.test');
+		const { fixtures } = (await (await programmer.get(`/api/projects/${pid}/fixtures`)).json()) as {
+			fixtures: { number: number; control: unknown }[];
+		};
+		expect(fixtures.filter((f) => f.number >= 980 && f.number <= 981).map((f) => f.control)).toEqual([
+			{ kind: 'dmx', universeId: u1.id, address: 1, breaks: [{ dmxBreak: 2, universeId: u2.id, address: 1 }] },
+			{ kind: 'dmx', universeId: u1.id, address: 7, breaks: [{ dmxBreak: 2, universeId: u2.id, address: 5 }] }
+		]);
 		await page.close();
 	});
 });

@@ -87,9 +87,10 @@ describe('on set and on paper, on a phone', () => {
 		await phone.locator('label:has(input[value="approved"])').click();
 		await phone.click('button:has-text("Send sign-off")');
 		await phone.locator('[data-testid="signed"]').waitFor();
-		// the name is kept on this phone for the next review
-		await phone.goto(link.url);
-		await phone.locator('[data-testid="diff"]').waitFor();
+		// the name is kept on this phone for the next review (a new link: this one has decided on revision 2)
+		const next = (await (await programmer.post(`${base}/review-links`, { revision: 1 })).json()) as { url: string };
+		await phone.goto(next.url);
+		await phone.locator('#name').waitFor();
 		await expect.poll(() => phone.inputValue('#name')).toBe('Pat Producer');
 	});
 

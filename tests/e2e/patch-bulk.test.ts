@@ -172,7 +172,23 @@ describe('bulk tools on a phone', () => {
 		const bar = page.getByRole('toolbar', { name: 'Selected fixtures' });
 		const box = await bar.boundingBox();
 		expect(box!.x + box!.width).toBeLessThanOrEqual(390);
+		// one row over the cards: less than two of its own buttons high (it wrapped into five rows)
+		const auto = await bar.getByRole('button', { name: 'Auto-address…' }).boundingBox();
+		expect(box!.height).toBeLessThan(2 * auto!.height);
 		await screenshot(page, 'bulk-phone-toolbar');
+		// the rest is behind More, reached by keyboard: Enter opens it on its first tool, Esc closes it back
+		const more = bar.getByRole('button', { name: 'More' });
+		expect(await bar.getByRole('button', { name: 'Set fields…' }).isVisible()).toBe(false);
+		await more.focus();
+		await page.keyboard.press('Enter');
+		expect(await more.getAttribute('aria-expanded')).toBe('true');
+		await expect.poll(() => page.evaluate(() => document.activeElement?.textContent?.trim())).toBe('Move to universe…');
+		await screenshot(page, 'bulk-phone-more');
+		await page.keyboard.press('Escape');
+		expect(await more.getAttribute('aria-expanded')).toBe('false');
+		expect(await more.evaluate((el) => el === document.activeElement)).toBe(true);
+		expect(await bar.getByRole('button', { name: 'Set fields…' }).isVisible()).toBe(false);
+		await more.click();
 		await bar.getByRole('button', { name: 'Set fields…' }).click();
 		const dialog = page.getByRole('dialog');
 		await dialog.getByLabel('On-set state').selectOption('fault');

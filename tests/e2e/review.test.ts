@@ -53,7 +53,14 @@ describe('revision, review link and sign-off in the browser', () => {
 		await mobile.click('button:has-text("Send sign-off")');
 		await mobile.locator('[data-testid="signed"]').waitFor();
 		expect(await mobile.locator('[data-testid="review-revision"]').textContent()).toContain('by Pat Producer');
+		// the link has decided on revision 1: the page shows that decision, and no second form, also after a reload
+		const decision = mobile.getByTestId('link-decision');
+		expect(await decision.textContent()).toMatch(/revision 1.*Approved.*by Pat Producer/s);
+		expect(await mobile.locator('form[action="?/signoff"]').count()).toBe(0);
 		await screenshot(mobile, 'review-approved-phone');
+		await mobile.reload();
+		await decision.waitFor();
+		expect(await mobile.locator('form[action="?/signoff"]').count()).toBe(0);
 
 		await page.goto(`${stage.server.url}/projects/${pid}/revisions`);
 		const signoffs = await page.locator('[data-testid="revision-1"] [data-testid="signoffs"]').textContent();

@@ -9,6 +9,8 @@ export interface ChannelSpec {
 	offset: number | null;
 	parameter: string;
 	bits?: 8 | 16 | 24;
+	/** the DMX break the offset counts from (DIN SPEC 15800 multi-break modes); 1 when left out */
+	dmxBreak?: number;
 }
 
 export function makeUniverse(db: Db, projectId: number, number: number, transport: 'dmx-wired' | 'sacn' = 'dmx-wired') {
@@ -45,7 +47,8 @@ export function makeType(db: Db, projectId: number, modeSpecs: Record<string, Ch
 						position: i,
 						offset: c.offset,
 						parameter: c.parameter,
-						bits: c.bits ?? 8
+						bits: c.bits ?? 8,
+						dmxBreak: c.dmxBreak ?? 1
 					}))
 				)
 				.run();

@@ -13,7 +13,7 @@ import {
 	snapshotOf,
 	type RevisionRow
 } from './db/revisions';
-import { createSignoff, signoffRecipients, type NewSignoff } from './db/signoffs';
+import { createSignoff, linkDecision, signoffRecipients, type NewSignoff } from './db/signoffs';
 import { queueMail } from './mail/outbox';
 import { newRevisionMail, signoffMail } from './mail/templates';
 import { memberMailByAddress, memberMailBySender, reviewLookupByIp, signoffByIp, throttle } from './ratelimit';
@@ -53,8 +53,14 @@ export function resolveToken(event: Pick<RequestEvent, 'params' | 'getClientAddr
 	}
 }
 
-/** The review page's data: the revision computed from its own snapshot, and what changed since the last approval before it. */
-export function reviewPayload(link: { revisionId: number | null; expiresAt: Date | null }, revision: RevisionRow) {
+/**
+ * The review page's data: the revision computed from its own snapshot, what changed since the last
+ * approval before it, and the decision this link already recorded on it (then the page offers no form).
+ */
+export function reviewPayload(
+	link: { id: number; revisionId: number | null; expiresAt: Date | null },
+	revision: RevisionRow
+) {
 	const snapshot = snapshotOf(revision);
 	const { universes, types, receivers, fixtures, conflicts } = computeSnapshot(snapshot);
 	const approved = lastApproved(revision.projectId, revision.number);
@@ -68,7 +74,8 @@ export function reviewPayload(link: { revisionId: number | null; expiresAt: Date
 		},
 		link: {
 			revision: link.revisionId === null ? ('latest' as const) : revision.number,
-			expiresAt: link.expiresAt?.toISOString() ?? null
+			expiresAt: link.expiresAt?.toISOString() ?? null,
+			signoff: linkDecision(link.id, revision)
 		},
 		revision: revisionShape(revision),
 		patch: { universes, types, receivers, fixtures, conflicts, summary: conflictSummary(conflicts) },

@@ -1,4 +1,6 @@
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, asc, eq, inArray } from 'drizzle-orm';
+import { isoDateTime } from '../../format';
+import { RefusedError } from '../errors';
 import { recordAudit } from './audit';
 import { db } from './index';
 import { memberships, signoffs, users, type Decision } from './schema';
@@ -12,9 +14,49 @@ export interface NewSignoff {
 	reviewLinkId?: number | null;
 }
 
-/** Stores a sign-off (with its audit row) in one transaction; mail goes out only after this commits. */
+/** A link's decision on one revision, as the review page and the refusal of a second one show it. */
+export interface LinkDecision {
+	decision: Decision;
+	name: string;
+	comment: string;
+	at: string;
+	revision: number;
+}
+
+/** What a review link already decided on this revision, if anything. */
+export function linkDecision(reviewLinkId: number, revision: RevisionRow): LinkDecision | null {
+	const row = db()
+		.select()
+		.from(signoffs)
+		.where(and(eq(signoffs.reviewLinkId, reviewLinkId), eq(signoffs.revisionId, revision.id)))
+		.orderBy(asc(signoffs.id))
+		.get();
+	if (!row) return null;
+	return {
+		decision: row.decision,
+		name: row.name,
+		comment: row.comment,
+		at: row.createdAt.toISOString(),
+		revision: revision.number
+	};
+}
+
+/**
+ * Stores a sign-off (with its audit row) in one transaction; mail goes out only after this commits.
+ * A review link decides once per revision: whoever holds it cannot overwrite or contradict the
+ * decision the crew was mailed. A new revision behind a "latest" link, or a new link, decides anew.
+ */
 export function createSignoff(revision: RevisionRow, input: NewSignoff) {
 	return db().transaction((tx) => {
+		const earlier = input.reviewLinkId ? linkDecision(input.reviewLinkId, revision) : null;
+		if (earlier) {
+			const what = earlier.decision === 'approved' ? 'an approval' : 'a request for changes';
+			throw new RefusedError(
+				`This link already recorded ${what} of revision ${earlier.revision} by ${earlier.name} ` +
+					`(${isoDateTime(earlier.at)}). A new decision needs a new revision or a new review link.`,
+				{ code: 'already-decided', extra: { signoff: earlier } }
+			);
+		}
 		const row = tx
 			.insert(signoffs)
 			.values({

@@ -3,6 +3,7 @@ import type { DescribedChanges, PatchDiff } from '$lib/patch';
 import { action, loader } from '$lib/server/forms';
 import type { PatchData } from '$lib/server/db/patch';
 import type { RevisionShape } from '$lib/server/db/revisions';
+import type { LinkDecision } from '$lib/server/db/signoffs';
 import { InvalidError } from '$lib/server/errors';
 import { zodIssues } from '$lib/server/api';
 import { resolveToken, reviewPayload, signOff, throttleSignoff } from '$lib/server/review';
@@ -14,7 +15,8 @@ import type { Actions, PageServerLoad } from './$types';
 
 export interface ReviewData {
 	project: { name: string; venue: string; startsOn: string | null; endsOn: string | null };
-	link: { revision: number | 'latest'; expiresAt: string | null };
+	/** `signoff`: what this link already decided on this revision; the page then shows it instead of the form */
+	link: { revision: number | 'latest'; expiresAt: string | null; signoff: LinkDecision | null };
 	revision: RevisionShape;
 	patch: Omit<PatchData, 'project'> & { summary: { errors: number; warnings: number; info: number } };
 	diff: (PatchDiff & { since: number; changes: DescribedChanges }) | null;
