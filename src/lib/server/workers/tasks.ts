@@ -1,6 +1,8 @@
 import { ApiError } from '../api';
 import { DomainError } from '../errors';
-import { importParsedCsv, parseCsvPatch } from '../import/csv';
+import { move } from 'piscina';
+import { applyCsvPlan, importParsedCsv, parseCsvPatch, type CsvSummary } from '../import/csv';
+import { keepPlan, planKey, takePlan } from '../import/csv-plan';
 import { parseGdtf } from '../import/gdtf';
 import { checkBackupBytes } from '../import/json-check';
 import { decodeSpreadsheet } from '../import/limits';
@@ -38,6 +40,15 @@ export interface Refusal {
 	refused: { status: number; message: string; extra: Record<string, unknown> };
 }
 
+/**
+ * An import's answer as the JSON the route sends, serialised here and moved (not copied) to the
+ * request loop: a 20,000-row preview's summary is megabytes, and cloning it across threads and
+ * serialising it again there held up every other request.
+ */
+function summaryJson(summary: CsvSummary) {
+	return move(new TextEncoder().encode(JSON.stringify(summary)));
+}
+
 async function run(task: Task): Promise<unknown> {
 	switch (task.kind) {
 		case 'csv': {
@@ -51,14 +62,27 @@ async function run(task: Task): Promise<unknown> {
 			// 20,000-row preview holds SQLite for a second or more, and that second must not be the
 			// request loop's. A preview rolls back; an apply commits and the main thread's patch cache
 			// sees the new data_version.
+			// An apply of the file this thread just previewed, into a database nobody has written since,
+			// writes the preview's checked plan (csv-plan.ts); otherwise, and for every preview, the whole pass.
+			const key = planKey(task.projectId, task.userId, task.bytes);
+			const kept = takePlan(key);
+			if (task.apply && kept) {
+				const summary = applyCsvPlan(task.projectId, task.userId, kept.plan, kept.state);
+				if (summary) return summaryJson(summary);
+			}
 			const decoded = decodeSpreadsheet(task.bytes);
 			if (!decoded) return { decoded: null };
 			if (/^\s*\{/.test(decoded.text.slice(0, 64))) return { decoded: { encoding: decoded.encoding, isJson: true } };
 			const parsed = parseCsvPatch(decoded.text);
-			return {
-				decoded: { encoding: decoded.encoding, isJson: false },
-				summary: importParsedCsv(task.projectId, task.userId, parsed, task.apply)
-			};
+			return summaryJson(
+				importParsedCsv(
+					task.projectId,
+					task.userId,
+					parsed,
+					task.apply,
+					task.apply ? undefined : (plan, state) => keepPlan(key, plan, state)
+				)
+			);
 		}
 		case 'gdtf':
 			return parseGdtf(task.bytes);
