@@ -20,7 +20,8 @@ import {
 	listReceivers,
 	listTypes,
 	listUniverses,
-	type FixtureRow
+	type FixtureRow,
+	type TypeShape
 } from '../db/patch';
 import { createUniverses } from '../db/universes';
 import { fixtureCreate, type ControlInput, type FixtureCreate } from '../../schemas/fixture';
@@ -151,7 +152,8 @@ export interface CsvRow {
 /** Our own export guards cells against formula injection with a leading quote; take it back off on the way in. */
 function cell(v: string | undefined): string {
 	const t = (v ?? '').trim();
-	return /^'[=+\-@\t\r]/.test(t) ? t.slice(1) : t;
+	// 39 is the quote: most cells are told apart without the expression
+	return t.charCodeAt(0) === 39 && /^'[=+\-@\t\r]/.test(t) ? t.slice(1) : t;
 }
 
 function int(text: string): number | null {
@@ -220,6 +222,10 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	let row = 0;
 	const get = (f: CsvField) => (columns[f] === undefined ? '' : cell(rec[columns[f]]));
 	const bad = (field: string, message: string) => void issues.push({ row, field, message });
+	const texts = (['label', 'maker', 'model', 'mode', 'position', 'group', 'notes', 'feed'] as const).filter(
+		(f) => columns[f] !== undefined
+	);
+	const breakCells = columns.range !== undefined || breakColumns !== undefined;
 	records.slice(1).forEach((record, i) => {
 		rec = record;
 		row = i + 2;
@@ -233,7 +239,7 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 		if (seen.has(num)) return bad('number', `Fixture ${num} is also on row ${seen.get(num)}.`);
 		seen.set(num, row);
 		const out: CsvRow = { row, number: num };
-		for (const f of ['label', 'maker', 'model', 'mode', 'position', 'group', 'notes', 'feed'] as const) {
+		for (const f of texts) {
 			const v = get(f);
 			if (v !== '') out[f] = v;
 		}
@@ -248,13 +254,14 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 			aText = inUniverse[2];
 		}
 		// "2.101" (also 2/101, 2:101) in the address or a combined column
-		const combined = /^(\d+)\s*[./:]\s*(\d+)$/.exec(get('patch') || aText);
+		const patch = get('patch');
+		const combined = /^(\d+)\s*[./:]\s*(\d+)$/.exec(patch || aText);
 		if (combined) {
 			if (uText !== '' && uText !== combined[1])
 				return bad('universe', `The universe column says ${uText} but "${combined[0]}" says ${combined[1]}.`);
 			uText = combined[1];
 			aText = combined[2];
-		} else if (get('patch') !== '') return bad('address', `"${get('patch')}" is not universe.address like 2.101.`);
+		} else if (patch !== '') return bad('address', `"${patch}" is not universe.address like 2.101.`);
 		if (uText !== '' || aText !== '') {
 			const u = int(uText);
 			const a = int(aText);
@@ -272,6 +279,11 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 				return bad('address', aText === '' ? 'A universe without an address.' : `"${aText}" is not an address.`);
 			out.universe = u;
 			out.address = a;
+		}
+		// a file without a range or break column (most) has no further breaks to read
+		if (!breakCells) {
+			rows.push(out);
+			return;
 		}
 		const cells: BreakCells = new Map();
 		const twice = rangeBreaks(get('range'), cells);
@@ -362,8 +374,37 @@ function controlBreaks(c: ControlInput | undefined): readonly { dmxBreak: number
 	return c?.kind === 'dmx' ? c.breaks : undefined;
 }
 
+type TypeMode =
+	{ typeId: number; modeId: number; typeName: string; modeName: string } | { field: string; message: string };
+
+/** The type and mode a row names (maker and model given), or why it names none. */
+function lookUpTypeMode(
+	byName: Map<string, TypeShape>,
+	maker: string,
+	model: string,
+	modeName: string | undefined
+): TypeMode {
+	const type = byName.get(`${maker.toLowerCase()}\u0000${model.toLowerCase()}`);
+	if (!type)
+		return { field: 'model', message: `No fixture type "${maker} ${model}" in this project; add or import it first.` };
+	const mode = modeName
+		? type.modes.find((m) => m.name.toLowerCase() === modeName.toLowerCase())
+		: type.modes.length === 1
+			? type.modes[0]
+			: undefined;
+	if (!mode)
+		return {
+			field: 'mode',
+			message: modeName
+				? `${type.maker} ${type.model} has no mode "${modeName}" (modes: ${type.modes.map((m) => m.name).join(', ')}).`
+				: `${type.maker} ${type.model} has several modes; name one.`
+		};
+	return { typeId: type.id, modeId: mode.id, typeName: `${type.maker} ${type.model}`, modeName: mode.name };
+}
+
 function patchText(u: number | undefined, a: number | undefined, breaks?: CsvRow['breaks']): string {
 	if (u === undefined) return '';
+	if (breaks === undefined) return `${u}.${a}`;
 	return [`${u}.${a}`, ...(breaks ?? []).map((b) => `break ${b.dmxBreak} ${b.universe}.${b.address}`)].join('; ');
 }
 
@@ -527,20 +568,15 @@ export function importParsedCsv(
 			};
 			// universes the file names that the project lacks: checked, then created in one batch
 			const newUniverses = new Map<number, UniverseCreate>();
+			const named = (r: CsvRow, number: number | undefined, field: () => string) => {
+				if (number === undefined || universeIds.has(number) || newUniverses.has(number)) return;
+				const u = universeCreate.safeParse({ number, name: `Universe ${number}`, transport: 'dmx-wired' });
+				if (!u.success) issues.push({ row: r.row, field: field(), message: u.error.issues[0].message });
+				else newUniverses.set(number, u.data);
+			};
 			for (const r of rows) {
-				const named = [
-					{ number: r.universe, field: 'universe' },
-					...(r.breaks ?? []).map((b) => ({ number: b.universe, field: `break ${b.dmxBreak}` }))
-				];
-				for (const { number, field } of named) {
-					if (number === undefined || universeIds.has(number) || newUniverses.has(number)) continue;
-					const u = universeCreate.safeParse({ number, name: `Universe ${number}`, transport: 'dmx-wired' });
-					if (!u.success) {
-						issues.push({ row: r.row, field, message: u.error.issues[0].message });
-						continue;
-					}
-					newUniverses.set(number, u.data);
-				}
+				named(r, r.universe, () => 'universe');
+				for (const b of r.breaks ?? []) named(r, b.universe, () => `break ${b.dmxBreak}`);
 			}
 			const previewUniverses = new Map<number, number>();
 			for (const u of createUniverses(projectId, userId, [...newUniverses.values()])) {
@@ -549,7 +585,17 @@ export function importParsedCsv(
 				summary.universes.push({ number: u.number, name: u.name, action: 'create' });
 			}
 			const badRows = new Set(issues.map((i) => i.row));
-			const typeById = new Map(types.map((t) => [t.id, t]));
+			// rows name a handful of types and modes thousands of times: each spelling is looked up once
+			const typeModes = new Map<string, TypeMode>();
+			const typeMode = (maker: string, model: string, mode: string | undefined): TypeMode => {
+				const key = `${maker}\u0000${model}\u0000${mode ?? ''}`;
+				let found = typeModes.get(key);
+				if (!found) {
+					found = lookUpTypeMode(byName, maker, model, mode);
+					typeModes.set(key, found);
+				}
+				return found;
+			};
 			const creates: { row: CsvRow; input: FixtureCreate }[] = [];
 			const changes: { row: CsvRow; change: FixtureChange; what: string[] }[] = [];
 			const feedNames = { packTypes: listPackTypes(projectId), circuits: listCircuits(projectId) };
@@ -567,6 +613,7 @@ export function importParsedCsv(
 				const feed = fed?.feed;
 				let typeId: number | undefined;
 				let modeId: number | undefined;
+				let found: TypeMode | undefined;
 				if (r.maker !== undefined || r.model !== undefined || r.mode !== undefined || !before) {
 					if (!r.maker || !r.model) {
 						bad(
@@ -575,27 +622,13 @@ export function importParsedCsv(
 						);
 						continue;
 					}
-					const type = byName.get(`${r.maker.toLowerCase()}\u0000${r.model.toLowerCase()}`);
-					if (!type) {
-						bad('model', `No fixture type "${r.maker} ${r.model}" in this project; add or import it first.`);
+					found = typeMode(r.maker, r.model, r.mode);
+					if ('message' in found) {
+						bad(found.field, found.message);
 						continue;
 					}
-					const mode = r.mode
-						? type.modes.find((m) => m.name.toLowerCase() === r.mode!.toLowerCase())
-						: type.modes.length === 1
-							? type.modes[0]
-							: undefined;
-					if (!mode) {
-						bad(
-							'mode',
-							r.mode
-								? `${type.maker} ${type.model} has no mode "${r.mode}" (modes: ${type.modes.map((m) => m.name).join(', ')}).`
-								: `${type.maker} ${type.model} has several modes; name one.`
-						);
-						continue;
-					}
-					typeId = type.id;
-					modeId = mode.id;
+					typeId = found.typeId;
+					modeId = found.modeId;
 				}
 				// a row that names no further breaks keeps the fixture's own, as long as its mode stays
 				const keptBreaks =
@@ -608,15 +641,11 @@ export function importParsedCsv(
 						universeId: universeIds.get(b.universe)!,
 						address: b.address
 					})) ?? keptBreaks?.map((b) => ({ dmxBreak: b.dmxBreak, universeId: b.universeId ?? 0, address: b.address }));
-				const control: ControlInput | undefined =
-					r.universe !== undefined
-						? {
-								kind: 'dmx',
-								universeId: universeIds.get(r.universe)!,
-								address: r.address!,
-								...(breaks !== undefined && breaks.length > 0 ? { breaks } : {})
-							}
-						: undefined;
+				let control: Extract<ControlInput, { kind: 'dmx' }> | undefined;
+				if (r.universe !== undefined) {
+					control = { kind: 'dmx', universeId: universeIds.get(r.universe)!, address: r.address! };
+					if (breaks !== undefined && breaks.length > 0) control.breaks = breaks;
+				}
 				if (!before) {
 					const values: CreateValues = {
 						number: r.number,
@@ -640,13 +669,13 @@ export function importParsedCsv(
 						input = parsed.data;
 					}
 					creates.push({ row: r, input });
-					const t = typeById.get(typeId!)!;
+					const named = found as Exclude<TypeMode, { message: string }>;
 					summary.create.push({
 						row: r.row,
 						number: r.number,
 						label: r.label ?? '',
-						type: `${t.maker} ${t.model}`,
-						mode: t.modes.find((m) => m.id === modeId)!.name,
+						type: named.typeName,
+						mode: named.modeName,
 						patch: patchText(r.universe, r.address, r.breaks)
 					});
 				} else {
