@@ -11,7 +11,14 @@ import { db } from './index';
 export function insertMany<T extends SQLiteTable>(table: T, rows: InferInsertModel<T>[]): number[] {
 	if (rows.length === 0) return [];
 	const columns = getTableColumns(table) as Record<string, SQLiteColumn>;
-	const keys = Object.keys(rows[0]).filter((k) => columns[k] !== undefined);
+	// a nullable column without a default that no row sets is left out: SQLite writes its null itself
+	const keys = Object.keys(rows[0]).filter((k) => {
+		const c = columns[k];
+		if (c === undefined) return false;
+		if (c.notNull || c.hasDefault) return true;
+		for (const row of rows) if ((row as Record<string, unknown>)[k] != null) return true;
+		return false;
+	});
 	const cols = keys.map((k) => columns[k]);
 	const names = cols.map((c) => `"${c.name}"`).join(', ');
 	const statement = db().$client.prepare(
