@@ -3,16 +3,12 @@ import { DomainError } from '../errors';
 import { move } from 'piscina';
 import { applyCsvPlan, importParsedCsv, parseCsvPatch, type CsvSummary } from '../import/csv';
 import { keepPlan, planKey, takePlan } from '../import/csv-plan';
-import { parseGdtf } from '../import/gdtf';
-import { checkBackupBytes } from '../import/json-check';
 import { decodeSpreadsheet } from '../import/limits';
-import { renderLabelSheet, type LabelOptions } from '../pdf/label-sheet';
-import { renderPatchSheet, type PatchSheetOptions } from '../pdf/patch-sheet';
-import { renderRadioSheet } from '../pdf/radio-sheet';
+import type { LabelOptions } from '../pdf/label-sheet';
+import type { PatchSheetOptions } from '../pdf/patch-sheet';
 import type { Paper, TitleInfo } from '../pdf/common';
 import type { PatchData } from '../db/patch';
 import type { PowerView } from '../db/power';
-import { renderPowerSheet } from '../pdf/power-sheet';
 import type { PatchSheetKind } from '../pdf/respond';
 
 // What runs in the worker threads (pool.ts): the CPU-heavy, I/O-free steps of imports, backup checks and
@@ -89,20 +85,27 @@ async function run(task: Task): Promise<unknown> {
 			);
 		}
 		case 'gdtf':
-			return parseGdtf(task.bytes);
+			return (await import('../import/gdtf')).parseGdtf(task.bytes);
 		case 'json-backup':
-			return checkBackupBytes(task.bytes);
+			return (await import('../import/json-check')).checkBackupBytes(task.bytes);
 		case 'pdf': {
 			const pdf =
 				task.sheet === 'patch'
-					? await renderPatchSheet(task.patch, task.title, task.paper, task.patchOptions)
+					? await (
+							await import('../pdf/patch-sheet')
+						).renderPatchSheet(task.patch, task.title, task.paper, task.patchOptions)
 					: task.sheet === 'radio'
-						? await renderRadioSheet(task.patch, task.title, task.paper)
-						: await renderLabelSheet(task.patch, task.title, { paper: task.paper, ...task.labels! });
+						? await (await import('../pdf/radio-sheet')).renderRadioSheet(task.patch, task.title, task.paper)
+						: await (
+								await import('../pdf/label-sheet')
+							).renderLabelSheet(task.patch, task.title, {
+								paper: task.paper,
+								...task.labels!
+							});
 			return new Uint8Array(pdf.buffer, pdf.byteOffset, pdf.byteLength);
 		}
 		case 'power-pdf': {
-			const pdf = await renderPowerSheet(task.power, task.title, task.paper);
+			const pdf = await (await import('../pdf/power-sheet')).renderPowerSheet(task.power, task.title, task.paper);
 			return new Uint8Array(pdf.buffer, pdf.byteOffset, pdf.byteLength);
 		}
 	}
