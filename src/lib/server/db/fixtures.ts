@@ -21,6 +21,7 @@ import {
 	feedColumns,
 	controlOf,
 	fixtureShape,
+	rowShape,
 	listTypes,
 	loadPatchCached,
 	type FixtureRow,
@@ -316,7 +317,23 @@ export function checkFixtureCreates(projectId: number, inputs: FixtureCreate[]):
 		inputs.map((f, i) => ({ number: f.number, path: many ? [i] : [] }))
 	);
 	const now = new Date();
-	return inputs.map((f) => ({ projectId, ...columnsOf(f), version: 1, createdAt: now, updatedAt: now }));
+	// one literal per row, not spreads of one: an import builds 20,000 of them
+	return inputs.map((f) => {
+		const row = columnsOf(f) as Omit<FixtureRow, 'id'>;
+		row.projectId = projectId;
+		row.version = 1;
+		row.createdAt = now;
+		row.updatedAt = now;
+		return row;
+	});
+}
+
+/**
+ * Inserts rows checkFixtureCreates answered, in the caller's transaction, checked against the database
+ * as it still is (a CSV import's kept preview plan; import/csv.ts applyCsvPlan); answers their ids.
+ */
+export function insertCheckedFixtures(rows: Omit<FixtureRow, 'id'>[]): number[] {
+	return uniqueAsConflict(() => insertMany(fixtures, rows));
 }
 
 /**
@@ -333,7 +350,7 @@ function createFixturesTx(
 		const rows = checkFixtureCreates(projectId, inputs);
 		// one prepared statement for the batch: a 20,000-row import is 20,000 runs of it, not 20,000 queries built
 		const ids = insertMany(fixtures, rows);
-		const shapes = rows.map((row, i) => fixtureShape({ ...row, id: ids[i] }));
+		const shapes = rows.map((row, i) => rowShape(row, ids[i]));
 		if (audit === 'each')
 			recordAuditMany(
 				shapes.map((shape) => ({

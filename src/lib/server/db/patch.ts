@@ -42,7 +42,7 @@ export type {
 	UniverseShape
 } from '../../shapes';
 
-export function controlOf(f: FixtureRow): FixtureControl {
+export function controlOf(f: Omit<FixtureRow, 'id'>): FixtureControl {
 	switch (f.controlKind) {
 		case 'dmx':
 			return f.breakAddresses != null && f.breakAddresses.length > 0
@@ -112,8 +112,13 @@ export function controlColumns(control: FixtureControl): ControlColumns {
 }
 
 export function fixtureShape(f: FixtureRow): FixtureShape {
+	return rowShape(f, f.id);
+}
+
+/** fixtureShape of a row yet to be written (or just written), with its id beside it rather than spread in. */
+export function rowShape(f: Omit<FixtureRow, 'id'>, id: number): FixtureShape {
 	return {
-		id: f.id,
+		id,
 		number: f.number,
 		label: f.label,
 		typeId: f.typeId,

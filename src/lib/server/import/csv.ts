@@ -2,16 +2,32 @@ import Papa from 'papaparse';
 import { listCircuits, listPackTypes } from '../db/power';
 import { feedText, parseFeed, sameFeed } from '../power-csv';
 import { DomainError, UnprocessableError } from '../errors';
-import { checkFixtureCreates, createFixtures, updateFixtures, type FixtureChange } from '../db/fixtures';
+import {
+	checkFixtureCreates,
+	createFixtures,
+	insertCheckedFixtures,
+	updateFixtures,
+	type FixtureChange
+} from '../db/fixtures';
+import { committedElsewhere, ownChanges } from '../db/change-state';
 import { recordAudit } from '../db/audit';
 import { getProject, projectShape } from '../db/projects';
 import { db } from '../db/index';
-import { conflictsFor, fixtureShape, listFixtures, listReceivers, listTypes, listUniverses } from '../db/patch';
+import {
+	conflictsFor,
+	listFixtures,
+	rowShape,
+	listReceivers,
+	listTypes,
+	listUniverses,
+	type FixtureRow,
+	type TypeShape
+} from '../db/patch';
 import { createUniverses } from '../db/universes';
 import { fixtureCreate, type ControlInput, type FixtureCreate } from '../../schemas/fixture';
 import { universeCreate, type UniverseCreate } from '../../schemas/universe';
 import type { ImportIssue } from './gdtf';
-import type { BreakAddress } from '../../patch/index';
+import type { BreakAddress, Feed } from '../../patch/index';
 import type { FixtureShape } from '../../shapes';
 
 // A patch spreadsheet as CSV: one row per fixture. Headers are matched loosely;
@@ -136,7 +152,8 @@ export interface CsvRow {
 /** Our own export guards cells against formula injection with a leading quote; take it back off on the way in. */
 function cell(v: string | undefined): string {
 	const t = (v ?? '').trim();
-	return /^'[=+\-@\t\r]/.test(t) ? t.slice(1) : t;
+	// 39 is the quote: most cells are told apart without the expression
+	return t.charCodeAt(0) === 39 && /^'[=+\-@\t\r]/.test(t) ? t.slice(1) : t;
 }
 
 function int(text: string): number | null {
@@ -205,6 +222,10 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 	let row = 0;
 	const get = (f: CsvField) => (columns[f] === undefined ? '' : cell(rec[columns[f]]));
 	const bad = (field: string, message: string) => void issues.push({ row, field, message });
+	const texts = (['label', 'maker', 'model', 'mode', 'position', 'group', 'notes', 'feed'] as const).filter(
+		(f) => columns[f] !== undefined
+	);
+	const breakCells = columns.range !== undefined || breakColumns !== undefined;
 	records.slice(1).forEach((record, i) => {
 		rec = record;
 		row = i + 2;
@@ -218,7 +239,7 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 		if (seen.has(num)) return bad('number', `Fixture ${num} is also on row ${seen.get(num)}.`);
 		seen.set(num, row);
 		const out: CsvRow = { row, number: num };
-		for (const f of ['label', 'maker', 'model', 'mode', 'position', 'group', 'notes', 'feed'] as const) {
+		for (const f of texts) {
 			const v = get(f);
 			if (v !== '') out[f] = v;
 		}
@@ -233,13 +254,14 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 			aText = inUniverse[2];
 		}
 		// "2.101" (also 2/101, 2:101) in the address or a combined column
-		const combined = /^(\d+)\s*[./:]\s*(\d+)$/.exec(get('patch') || aText);
+		const patch = get('patch');
+		const combined = /^(\d+)\s*[./:]\s*(\d+)$/.exec(patch || aText);
 		if (combined) {
 			if (uText !== '' && uText !== combined[1])
 				return bad('universe', `The universe column says ${uText} but "${combined[0]}" says ${combined[1]}.`);
 			uText = combined[1];
 			aText = combined[2];
-		} else if (get('patch') !== '') return bad('address', `"${get('patch')}" is not universe.address like 2.101.`);
+		} else if (patch !== '') return bad('address', `"${patch}" is not universe.address like 2.101.`);
 		if (uText !== '' || aText !== '') {
 			const u = int(uText);
 			const a = int(aText);
@@ -257,6 +279,11 @@ export function parseCsvPatch(text: string): { rows: CsvRow[]; issues: ImportIss
 				return bad('address', aText === '' ? 'A universe without an address.' : `"${aText}" is not an address.`);
 			out.universe = u;
 			out.address = a;
+		}
+		// a file without a range or break column (most) has no further breaks to read
+		if (!breakCells) {
+			rows.push(out);
+			return;
 		}
 		const cells: BreakCells = new Map();
 		const twice = rangeBreaks(get('range'), cells);
@@ -347,8 +374,37 @@ function controlBreaks(c: ControlInput | undefined): readonly { dmxBreak: number
 	return c?.kind === 'dmx' ? c.breaks : undefined;
 }
 
+type TypeMode =
+	{ typeId: number; modeId: number; typeName: string; modeName: string } | { field: string; message: string };
+
+/** The type and mode a row names (maker and model given), or why it names none. */
+function lookUpTypeMode(
+	byName: Map<string, TypeShape>,
+	maker: string,
+	model: string,
+	modeName: string | undefined
+): TypeMode {
+	const type = byName.get(`${maker.toLowerCase()}\u0000${model.toLowerCase()}`);
+	if (!type)
+		return { field: 'model', message: `No fixture type "${maker} ${model}" in this project; add or import it first.` };
+	const mode = modeName
+		? type.modes.find((m) => m.name.toLowerCase() === modeName.toLowerCase())
+		: type.modes.length === 1
+			? type.modes[0]
+			: undefined;
+	if (!mode)
+		return {
+			field: 'mode',
+			message: modeName
+				? `${type.maker} ${type.model} has no mode "${modeName}" (modes: ${type.modes.map((m) => m.name).join(', ')}).`
+				: `${type.maker} ${type.model} has several modes; name one.`
+		};
+	return { typeId: type.id, modeId: mode.id, typeName: `${type.maker} ${type.model}`, modeName: mode.name };
+}
+
 function patchText(u: number | undefined, a: number | undefined, breaks?: CsvRow['breaks']): string {
 	if (u === undefined) return '';
+	if (breaks === undefined) return `${u}.${a}`;
 	return [`${u}.${a}`, ...(breaks ?? []).map((b) => `break ${b.dmxBreak} ${b.universe}.${b.address}`)].join('; ');
 }
 
@@ -366,6 +422,74 @@ function sameDmx(
 	return a.universeId === b.universeId && a.address === b.address && breakKey(a.breaks) === breakKey(b.breaks);
 }
 
+/** What a CSV row gives a new fixture, before the schema's defaults. */
+export interface CreateValues {
+	number: number;
+	label?: string;
+	typeId: number;
+	modeId: number;
+	position?: string;
+	group?: string;
+	notes?: string;
+	control?: ControlInput;
+	feed?: Feed;
+}
+
+const positiveInt = (n: unknown): n is number => Number.isInteger(n) && (n as number) > 0;
+const slot = (n: unknown): n is number => Number.isInteger(n) && (n as number) >= 1 && (n as number) <= 512;
+const within = (s: string | undefined, max: number) => s === undefined || s.length <= max;
+
+/**
+ * fixtureCreate.parse's answer, built directly when every value is plainly inside the schema's bounds
+ * (the usual row of a 20,000-row file, where the schema's per-row pass cost more than the database
+ * checks); null sends the row through the schema, whose messages say what is wrong. The cell text is
+ * already trimmed. tests/unit/import/csv-create.test.ts holds the two answers equal.
+ */
+export function plainCreate(v: CreateValues): FixtureCreate | null {
+	if (!positiveInt(v.number) || v.number > 999999 || !positiveInt(v.typeId) || !positiveInt(v.modeId)) return null;
+	if (!within(v.label, 60) || !within(v.position, 120) || !within(v.group, 120) || !within(v.notes, 5000)) return null;
+	let control: FixtureCreate['control'];
+	const c = v.control;
+	if (c === undefined || c.kind === 'manual') control = { kind: 'manual' };
+	else if (c.kind === 'dmx' && positiveInt(c.universeId) && slot(c.address)) {
+		if (c.breaks === undefined) control = { kind: 'dmx', universeId: c.universeId, address: c.address };
+		else {
+			if (c.breaks.length > 63) return null;
+			const breaks: { dmxBreak: number; universeId: number; address: number }[] = [];
+			const seen = new Set<number>();
+			for (const b of c.breaks) {
+				if (!Number.isInteger(b.dmxBreak) || b.dmxBreak < 2 || b.dmxBreak > 64 || seen.has(b.dmxBreak)) return null;
+				if (!positiveInt(b.universeId) || !slot(b.address)) return null;
+				seen.add(b.dmxBreak);
+				breaks.push({ dmxBreak: b.dmxBreak, universeId: b.universeId, address: b.address });
+			}
+			control = { kind: 'dmx', universeId: c.universeId, address: c.address, breaks };
+		}
+	} else return null;
+	let feed: FixtureCreate['feed'];
+	const f = v.feed;
+	if (f === undefined || f.kind === 'none') feed = { kind: 'none' };
+	else if (f.kind === 'battery' && positiveInt(f.packTypeId)) feed = { kind: 'battery', packTypeId: f.packTypeId };
+	else if (f.kind === 'mains' && positiveInt(f.circuitId)) feed = { kind: 'mains', circuitId: f.circuitId };
+	else return null;
+	return {
+		number: v.number,
+		label: v.label ?? '',
+		typeId: v.typeId,
+		modeId: v.modeId,
+		position: v.position ?? '',
+		group: v.group ?? '',
+		linkGroup: null,
+		colour: '',
+		watts: null,
+		notes: v.notes ?? '',
+		state: 'planned',
+		look: {},
+		control,
+		feed
+	};
+}
+
 /** Plans and (with `apply`) writes the CSV rows; any bad row refuses the whole file with 422 naming every bad row. */
 export function importCsv(projectId: number, userId: string, text: string, apply: boolean): CsvSummary {
 	return importParsedCsv(projectId, userId, parseCsvPatch(text), apply);
@@ -373,8 +497,43 @@ export function importCsv(projectId: number, userId: string, text: string, apply
 
 export type ParsedCsv = ReturnType<typeof parseCsvPatch>;
 
+/**
+ * What a clean preview checked, so that applying the same file to the same, unchanged database can
+ * write it without parsing and checking it again (import/csv-plan.ts keeps it).
+ */
+export interface CsvPlan {
+	summary: CsvSummary;
+	/** the universes to create, in the order the preview created them */
+	universes: UniverseCreate[];
+	/** the preview's (rolled back) universe ids → their numbers, to point the rows at apply's own ids */
+	previewUniverses: Map<number, number>;
+	/** the fixture rows the preview checked, as the insert writes them (timestamps are set again on apply) */
+	rows: Omit<FixtureRow, 'id'>[];
+	/** changes to existing fixtures; updateFixtures checks them again on apply (their versions too) */
+	changes: FixtureChange[];
+}
+
+/**
+ * `keep` receives a preview's plan with the database state it was checked against: the other
+ * connections' commits as of the preview's first statement (which opens its read snapshot, so a later
+ * commit makes the state differ, never the plan stale) and this connection's own change count after
+ * the rollback.
+ */
+export type KeepPlan = (plan: CsvPlan, state: string) => void;
+
+/** The state applyCsvPlan compares with a kept plan's (inside its transaction, which holds the write lock). */
+export function planState(seen: string = committedElsewhere()): string {
+	return `${seen}.${ownChanges()}`;
+}
+
 /** The database half of importCsv, for rows parsed elsewhere (a worker thread). */
-export function importParsedCsv(projectId: number, userId: string, parsed: ParsedCsv, apply: boolean): CsvSummary {
+export function importParsedCsv(
+	projectId: number,
+	userId: string,
+	parsed: ParsedCsv,
+	apply: boolean,
+	keep?: KeepPlan
+): CsvSummary {
 	const { rows, ignored } = parsed;
 	const issues = [...parsed.issues];
 	if (rows.length === 0 && issues.length === 0)
@@ -385,8 +544,14 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 				code: 'invalid-file'
 			}
 		);
+	let seen = '';
+	let plan: CsvPlan | undefined;
+	// an apply writes: it takes the write lock at the start rather than upgrading to it midway
+	const lock = { behavior: apply ? 'immediate' : 'deferred' } as const;
 	try {
 		return db().transaction(() => {
+			// the first statement: it opens the read snapshot every check below reads
+			seen = committedElsewhere();
 			const types = listTypes(projectId);
 			const byName = new Map(types.map((t) => [`${t.maker.toLowerCase()}\u0000${t.model.toLowerCase()}`, t]));
 			const existing = new Map(listFixtures(projectId).map((f) => [f.number, f]));
@@ -403,27 +568,34 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 			};
 			// universes the file names that the project lacks: checked, then created in one batch
 			const newUniverses = new Map<number, UniverseCreate>();
+			const named = (r: CsvRow, number: number | undefined, field: () => string) => {
+				if (number === undefined || universeIds.has(number) || newUniverses.has(number)) return;
+				const u = universeCreate.safeParse({ number, name: `Universe ${number}`, transport: 'dmx-wired' });
+				if (!u.success) issues.push({ row: r.row, field: field(), message: u.error.issues[0].message });
+				else newUniverses.set(number, u.data);
+			};
 			for (const r of rows) {
-				const named = [
-					{ number: r.universe, field: 'universe' },
-					...(r.breaks ?? []).map((b) => ({ number: b.universe, field: `break ${b.dmxBreak}` }))
-				];
-				for (const { number, field } of named) {
-					if (number === undefined || universeIds.has(number) || newUniverses.has(number)) continue;
-					const u = universeCreate.safeParse({ number, name: `Universe ${number}`, transport: 'dmx-wired' });
-					if (!u.success) {
-						issues.push({ row: r.row, field, message: u.error.issues[0].message });
-						continue;
-					}
-					newUniverses.set(number, u.data);
-				}
+				named(r, r.universe, () => 'universe');
+				for (const b of r.breaks ?? []) named(r, b.universe, () => `break ${b.dmxBreak}`);
 			}
+			const previewUniverses = new Map<number, number>();
 			for (const u of createUniverses(projectId, userId, [...newUniverses.values()])) {
 				universeIds.set(u.number, u.id);
+				previewUniverses.set(u.id, u.number);
 				summary.universes.push({ number: u.number, name: u.name, action: 'create' });
 			}
 			const badRows = new Set(issues.map((i) => i.row));
-			const typeById = new Map(types.map((t) => [t.id, t]));
+			// rows name a handful of types and modes thousands of times: each spelling is looked up once
+			const typeModes = new Map<string, TypeMode>();
+			const typeMode = (maker: string, model: string, mode: string | undefined): TypeMode => {
+				const key = `${maker}\u0000${model}\u0000${mode ?? ''}`;
+				let found = typeModes.get(key);
+				if (!found) {
+					found = lookUpTypeMode(byName, maker, model, mode);
+					typeModes.set(key, found);
+				}
+				return found;
+			};
 			const creates: { row: CsvRow; input: FixtureCreate }[] = [];
 			const changes: { row: CsvRow; change: FixtureChange; what: string[] }[] = [];
 			const feedNames = { packTypes: listPackTypes(projectId), circuits: listCircuits(projectId) };
@@ -441,6 +613,7 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 				const feed = fed?.feed;
 				let typeId: number | undefined;
 				let modeId: number | undefined;
+				let found: TypeMode | undefined;
 				if (r.maker !== undefined || r.model !== undefined || r.mode !== undefined || !before) {
 					if (!r.maker || !r.model) {
 						bad(
@@ -449,27 +622,13 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						);
 						continue;
 					}
-					const type = byName.get(`${r.maker.toLowerCase()}\u0000${r.model.toLowerCase()}`);
-					if (!type) {
-						bad('model', `No fixture type "${r.maker} ${r.model}" in this project; add or import it first.`);
+					found = typeMode(r.maker, r.model, r.mode);
+					if ('message' in found) {
+						bad(found.field, found.message);
 						continue;
 					}
-					const mode = r.mode
-						? type.modes.find((m) => m.name.toLowerCase() === r.mode!.toLowerCase())
-						: type.modes.length === 1
-							? type.modes[0]
-							: undefined;
-					if (!mode) {
-						bad(
-							'mode',
-							r.mode
-								? `${type.maker} ${type.model} has no mode "${r.mode}" (modes: ${type.modes.map((m) => m.name).join(', ')}).`
-								: `${type.maker} ${type.model} has several modes; name one.`
-						);
-						continue;
-					}
-					typeId = type.id;
-					modeId = mode.id;
+					typeId = found.typeId;
+					modeId = found.modeId;
 				}
 				// a row that names no further breaks keeps the fixture's own, as long as its mode stays
 				const keptBreaks =
@@ -482,40 +641,41 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						universeId: universeIds.get(b.universe)!,
 						address: b.address
 					})) ?? keptBreaks?.map((b) => ({ dmxBreak: b.dmxBreak, universeId: b.universeId ?? 0, address: b.address }));
-				const control: ControlInput | undefined =
-					r.universe !== undefined
-						? {
-								kind: 'dmx',
-								universeId: universeIds.get(r.universe)!,
-								address: r.address!,
-								...(breaks !== undefined && breaks.length > 0 ? { breaks } : {})
-							}
-						: undefined;
+				let control: Extract<ControlInput, { kind: 'dmx' }> | undefined;
+				if (r.universe !== undefined) {
+					control = { kind: 'dmx', universeId: universeIds.get(r.universe)!, address: r.address! };
+					if (breaks !== undefined && breaks.length > 0) control.breaks = breaks;
+				}
 				if (!before) {
-					const parsed = fixtureCreate.safeParse({
+					const values: CreateValues = {
 						number: r.number,
 						label: r.label,
-						typeId,
-						modeId,
+						typeId: typeId!,
+						modeId: modeId!,
 						position: r.position,
 						group: r.group,
 						notes: r.notes,
 						control: control ?? { kind: 'manual' },
 						feed
-					});
-					if (!parsed.success) {
-						for (const i of parsed.error.issues)
-							bad(fieldOf(i.path.filter((p): p is string | number => typeof p !== 'symbol')), i.message);
-						continue;
+					};
+					let input = plainCreate(values);
+					if (!input) {
+						const parsed = fixtureCreate.safeParse(values);
+						if (!parsed.success) {
+							for (const i of parsed.error.issues)
+								bad(fieldOf(i.path.filter((p): p is string | number => typeof p !== 'symbol')), i.message);
+							continue;
+						}
+						input = parsed.data;
 					}
-					creates.push({ row: r, input: parsed.data });
-					const t = typeById.get(typeId!)!;
+					creates.push({ row: r, input });
+					const named = found as Exclude<TypeMode, { message: string }>;
 					summary.create.push({
 						row: r.row,
 						number: r.number,
 						label: r.label ?? '',
-						type: `${t.maker} ${t.model}`,
-						mode: t.modes.find((m) => m.id === modeId)!.name,
+						type: named.typeName,
+						mode: named.modeName,
 						patch: patchText(r.universe, r.address, r.breaks)
 					});
 				} else {
@@ -560,12 +720,15 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 			// A preview runs the create checks without the insert (the rows it would write, numbered
 			// -1, -2, … for the conflict check); an apply runs the same checks and inserts.
 			let created: FixtureShape[] = [];
+			let checked: Omit<FixtureRow, 'id'>[] = [];
 			if (creates.length) {
 				const inputs = creates.map((c) => c.input);
 				try {
-					created = apply
-						? createFixtures(projectId, userId, inputs, 'none')
-						: checkFixtureCreates(projectId, inputs).map((row, i) => fixtureShape({ ...row, id: -(i + 1) }));
+					if (apply) created = createFixtures(projectId, userId, inputs, 'none');
+					else {
+						checked = checkFixtureCreates(projectId, inputs);
+						created = checked.map((row, i) => rowShape(row, -(i + 1)));
+					}
 				} catch (e) {
 					issues.push(
 						...issuesOf(e, creates.length > 1, (i) => {
@@ -634,11 +797,81 @@ export function importParsedCsv(projectId: number, userId: string, parsed: Parse
 						updated: updated.map((f) => ({ id: f.id, number: f.number }))
 					}
 				});
-			if (!apply) throw new Rollback(summary);
+			if (!apply) {
+				if (keep)
+					plan = {
+						summary,
+						universes: [...newUniverses.values()],
+						previewUniverses,
+						rows: checked,
+						changes: changes.map((c) => c.change)
+					};
+				throw new Rollback(summary);
+			}
 			return summary;
-		});
+		}, lock);
 	} catch (e) {
-		if (e instanceof Rollback) return e.summary;
+		if (e instanceof Rollback) {
+			if (plan && keep) keep(plan, planState(seen));
+			return e.summary;
+		}
 		throw e;
 	}
+}
+
+/**
+ * Writes a kept preview plan, when the database is still in the state the preview checked it against
+ * (`state`, from planState): the universes, the checked rows pointed at the new universes' ids, the
+ * updates (checked again by updateFixtures) and the one audit entry, in one transaction. Answers null
+ * with nothing written when anything at all was committed since: the caller then runs the whole import.
+ */
+export function applyCsvPlan(projectId: number, userId: string, plan: CsvPlan, state: string): CsvSummary | null {
+	return db().transaction(
+		() => {
+			if (planState() !== state) return null;
+			const made = createUniverses(projectId, userId, plan.universes);
+			const idOf = new Map(made.map((u) => [u.number, u.id]));
+			const ours = (id: number | null) => {
+				const n = id === null ? undefined : plan.previewUniverses.get(id);
+				return n === undefined ? id : idOf.get(n)!;
+			};
+			const now = new Date();
+			// the plan is used once (csv-plan.ts takes it out of its cache): its rows are pointed in place
+			for (const r of plan.rows) {
+				r.universeId = ours(r.universeId);
+				if (r.breakAddresses)
+					r.breakAddresses = r.breakAddresses.map((b) => ({ ...b, universeId: ours(b.universeId)! }));
+				r.createdAt = now;
+				r.updatedAt = now;
+			}
+			const ids = insertCheckedFixtures(plan.rows);
+			for (const c of plan.changes)
+				if (c.control && c.control.kind !== 'manual' && 'universeId' in c.control)
+					c.control = {
+						...c.control,
+						universeId: ours(c.control.universeId)!,
+						...(c.control.kind === 'dmx' && c.control.breaks
+							? { breaks: c.control.breaks.map((b) => ({ ...b, universeId: ours(b.universeId)! })) }
+							: {})
+					};
+			const updated = plan.changes.length ? updateFixtures(projectId, userId, plan.changes) : [];
+			const summary: CsvSummary = { ...plan.summary, applied: true };
+			if (ids.length > 0 || updated.length > 0 || summary.universes.length > 0)
+				recordAudit({
+					projectId,
+					userId,
+					action: 'fixture.import',
+					entity: 'project',
+					entityId: projectId,
+					after: {
+						rows: summary.rows,
+						universes: summary.universes.map((u) => u.number),
+						created: ids.map((id, i) => ({ id, number: plan.rows[i].number })),
+						updated: updated.map((f) => ({ id: f.id, number: f.number }))
+					}
+				});
+			return summary;
+		},
+		{ behavior: 'immediate' }
+	);
 }

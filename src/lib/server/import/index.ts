@@ -1,7 +1,6 @@
 import { DuplicateError, UnsupportedTypeError } from '../errors';
 import { createType } from '../db/fixture-types';
 import { listTypes, type TypeShape } from '../db/patch';
-import type { CsvSummary } from './csv';
 import type { GdtfResult } from './gdtf';
 import { sniff } from './limits';
 import { runJob } from '../workers/pool';
@@ -24,6 +23,13 @@ export interface GdtfSummary {
 	exists: boolean;
 }
 
+/** A CSV import's summary (CsvSummary) as the JSON text to send, made in the worker. */
+export interface CsvAnswer {
+	kind: 'csv';
+	applied: boolean;
+	json: Uint8Array<ArrayBuffer>;
+}
+
 /** `apply=true` as a query parameter or a form field writes; anything else previews. */
 export function wantsApply(url: URL, fields: Map<string, string>): boolean {
 	const v = url.searchParams.get('apply') ?? fields.get('apply');
@@ -36,7 +42,7 @@ export async function importUpload(
 	userId: string,
 	upload: Upload,
 	apply: boolean
-): Promise<GdtfSummary | CsvSummary> {
+): Promise<GdtfSummary | CsvAnswer> {
 	const kind = sniff(upload.bytes);
 	const name = upload.name.toLowerCase();
 	if (kind === 'zip') {
@@ -66,14 +72,16 @@ export async function importUpload(
 		return { kind: 'gdtf', applied: apply, dataVersion, warnings, type: created, modes, exists };
 	}
 	if (name.endsWith('.gdtf')) throw new UnsupportedTypeError('This .gdtf file is not a zip archive.');
-	const job = await runJob<{ decoded: { isJson: boolean } | null; summary?: CsvSummary }>(
+	// the worker answers the summary as JSON bytes (workers/tasks.ts summaryJson), or what the file is not
+	const job = await runJob<Uint8Array<ArrayBuffer> | { decoded: { isJson: boolean } | null }>(
 		{ kind: 'csv-import', bytes: upload.bytes, projectId, userId, apply },
 		apply ? 'Importing the CSV file' : 'Reading the CSV file'
 	);
-	if (!job.decoded) throw new UnsupportedTypeError('The file is neither a CSV patch nor a GDTF fixture type.');
-	if (kind === 'json' || job.decoded.isJson || !job.summary)
+	if (!(job instanceof Uint8Array) && !job.decoded)
+		throw new UnsupportedTypeError('The file is neither a CSV patch nor a GDTF fixture type.');
+	if (kind === 'json' || !(job instanceof Uint8Array))
 		throw new UnsupportedTypeError(
 			'A project backup (.json) is imported as a new project: POST /api/projects/import-json.'
 		);
-	return job.summary;
+	return { kind: 'csv', applied: apply, json: job };
 }

@@ -12,5 +12,8 @@ export const POST: RequestHandler = api(async (event) => {
 	const upload = await readUpload(event);
 	const summary = await importUpload(projectId, user.id, upload, wantsApply(event.url, upload.fields));
 	if (summary.applied) publish(projectId, { by: user.id, refetch: true });
-	return json(summary, { status: summary.applied ? 201 : 200 });
+	const status = summary.applied ? 201 : 200;
+	// a CSV import's summary comes from the worker already as JSON
+	if ('json' in summary) return new Response(summary.json, { status, headers: { 'content-type': 'application/json' } });
+	return json(summary, { status });
 });
