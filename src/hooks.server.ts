@@ -2,7 +2,7 @@ import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { authHandle } from '$lib/server/auth/index';
 import { compressResponse } from '$lib/server/compress';
-import { readSession } from '$lib/server/auth/session';
+import { readSession, sessionCheckedAt } from '$lib/server/auth/session';
 import { pageCache } from '$lib/server/page-cache';
 import { db } from '$lib/server/db/index';
 import { purgeRevokedSessions } from '$lib/server/db/users';
@@ -66,6 +66,9 @@ const limitSignInLinks: Handle = async ({ event, resolve }) => {
 
 const readUser: Handle = async ({ event, resolve }) => {
 	event.locals.user = await readSession(event.cookies, event.url.protocol === 'https:');
+	// a read-only request reads as of its session check; a write's own changes must be seen by its loads
+	if (event.locals.user && (event.request.method === 'GET' || event.request.method === 'HEAD'))
+		event.locals.readState = sessionCheckedAt(event.cookies);
 	return resolve(event);
 };
 

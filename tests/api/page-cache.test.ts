@@ -102,6 +102,24 @@ describe('kept page renders', () => {
 		expect((await html(asProgrammer, path)).status).toBe(404);
 	});
 
+	it('the role kept for read-only requests goes with the membership, at once', async () => {
+		const { db, project, programmer, asProgrammer } = await crew();
+		const path = `/api/projects/${project.id}/conflicts`;
+		expect((await asProgrammer.get(path)).status).toBe(200);
+		expect((await asProgrammer.get(path)).status).toBe(200);
+		// by another connection (data_version), then by the server itself (its own write counter)
+		db.update(memberships)
+			.set({ role: 'viewer' })
+			.where(and(eq(memberships.projectId, project.id), eq(memberships.userId, programmer.id)))
+			.run();
+		const renamed = await asProgrammer.patch(`/api/projects/${project.id}`, { version: project.version, name: 'No' });
+		expect(renamed.status).toBe(403);
+		db.delete(memberships)
+			.where(and(eq(memberships.projectId, project.id), eq(memberships.userId, programmer.id)))
+			.run();
+		expect((await asProgrammer.get(path)).status).toBe(404);
+	});
+
 	it('a signed-out cookie gets no kept page', async () => {
 		const { project, asProgrammer } = await crew();
 		const path = `/projects/${project.id}/patch`;

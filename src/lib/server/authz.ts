@@ -1,5 +1,5 @@
 import { error, type RequestEvent } from '@sveltejs/kit';
-import { memberRole } from './db/members';
+import { memberRole, memberRoleAt } from './db/members';
 import type { Role } from './db/schema';
 
 // The one authorization helper. Every server load, form action and
@@ -42,7 +42,8 @@ export function requireRole(
 	const id = parseId(projectId);
 	const notFound = () => error(404, { message: 'No such project.', code: 'not-found' });
 	if (id === null) notFound();
-	const role = memberRole(id!, user.id);
+	const state = event.locals.readState;
+	const role = state ? memberRoleAt(state, id!, user.id) : memberRole(id!, user.id);
 	if (!role) notFound();
 	if (!roleAtLeast(role!, minimum)) {
 		error(403, {

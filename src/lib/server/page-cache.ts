@@ -2,7 +2,7 @@ import type { Handle } from '@sveltejs/kit';
 import { createHash } from 'node:crypto';
 import { LRUCache } from 'lru-cache';
 import { sessionRenewed } from './auth/session';
-import { changeKey } from './db/patch';
+import { changeKey } from './db/change-state';
 
 // Rendered project pages, kept until the next write (issue 14). A server render of the patch page
 // costs several times a cached API read (Svelte's render, devalue, the CSP hashes of the inline
@@ -72,7 +72,9 @@ export const pageCache: Handle = async ({ event, resolve }) => {
 		sessionRenewed(event.cookies)
 	)
 		return resolve(event);
-	const state = changeKey();
+	// the state the session was checked at, moments ago: the request is answered as of that read
+	// (a client's own earlier write always came before it)
+	const state = event.locals.readState ?? changeKey();
 	const key = `${state}\n${user.id}\n${event.url.href}\n${event.cookies.get(THEME_COOKIE) ?? ''}`;
 	const hit = kept.get(key);
 	if (hit) return answer(hit);

@@ -2,6 +2,7 @@ import type { Cookies } from '@sveltejs/kit';
 import { decode, encode, type JWT } from '@auth/core/jwt';
 import { LRUCache } from 'lru-cache';
 import { authSecret } from '../config';
+import { changeKey } from '../db/change-state';
 import { sessionState } from '../db/users';
 
 // The per-request session read (issue 14). Auth.js stays in charge of signing in and out; reading
@@ -29,6 +30,31 @@ const rejected = new LRUCache<string, true>({ max: 5_000, ttl: 60_000 });
 
 // requests whose session cookie was re-issued: their answer must carry the new cookie (page-cache.ts)
 const renewed = new WeakSet<Cookies>();
+// the database's change state each request's session was checked at, for the page cache's key
+const checkedAt = new WeakMap<Cookies, string>();
+
+/**
+ * The session check's answer, kept per database change state: it stays true until the next write, and
+ * sign-out, "sign out everywhere", password changes and account removal are all writes, as is any
+ * other process's commit. Reading the change state costs about half the check's indexed read, and the
+ * page cache reuses it for its key, so a kept page costs one read of it and no other.
+ */
+type Check = ReturnType<typeof sessionState>;
+const checks = new LRUCache<string, { check: Check }>({ max: 5_000 });
+
+function checkAt(state: string, userId: string, sid: string): Check {
+	const key = `${state}\n${userId}\n${sid}`;
+	const hit = checks.get(key);
+	if (hit) return hit.check;
+	const check = sessionState(userId, sid);
+	checks.set(key, { check });
+	return check;
+}
+
+/** The change state this request's session was checked at, if it had one. */
+export function sessionCheckedAt(cookies: Cookies): string | undefined {
+	return checkedAt.get(cookies);
+}
 
 /** True when readSession re-issued this request's session cookie. */
 export function sessionRenewed(cookies: Cookies): boolean {
@@ -87,7 +113,9 @@ export async function readSession(cookies: Cookies, secure: boolean): Promise<Se
 	const session = await verify(value, name);
 	const nowS = Date.now() / 1000;
 	if (!session || session.exp <= nowS) return null;
-	const state = sessionState(session.sub, session.sid);
+	const at = changeKey();
+	checkedAt.set(cookies, at);
+	const state = checkAt(at, session.sub, session.sid);
 	if (!state || state.revoked || state.generation !== session.gen || !state.email) {
 		verified.delete(value);
 		return null;

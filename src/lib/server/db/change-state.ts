@@ -2,10 +2,11 @@ import { randomBytes } from 'node:crypto';
 import type { Database, Statement } from 'better-sqlite3';
 import { db } from './index';
 
-// What this connection can tell about writes to the database file, for work kept between two requests
-// (an import's checked plan): `committedElsewhere()` changes whenever another connection (the request
-// loop, another worker thread, another process) commits; `ownChanges()` whenever this connection
-// writes, rolled back or not. The epoch names the connection, so a reopened one never matches.
+// What this connection can tell about writes to the database file, for work kept until the next write
+// (the computed patch, kept page renders, session checks, an import's checked plan):
+// `committedElsewhere()` changes whenever another connection (the request loop, another worker
+// thread, another process) commits; `ownChanges()` whenever this connection writes, rolled back or
+// not; `changeKey()` names both at once. The epoch names the connection, so a reopened one never matches.
 
 interface Counters {
 	client: Database;
@@ -38,4 +39,10 @@ export function committedElsewhere(): string {
 /** Rows this connection has inserted, updated or deleted since it opened, rolled back or not. */
 export function ownChanges(): number {
 	return Number(theCounters().totalChanges.get());
+}
+
+/** Names the database state: moves with every write by this connection or any other one. */
+export function changeKey(): string {
+	const c = theCounters();
+	return `${c.epoch}.${String(c.dataVersion.get())}.${String(c.totalChanges.get())}`;
 }

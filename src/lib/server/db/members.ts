@@ -2,6 +2,7 @@ import { and, asc, eq, isNull, sql } from 'drizzle-orm';
 import { now } from '../clock';
 import { DuplicateError, ForbiddenError, GoneError, NotFoundError, RefusedError } from '../errors';
 import { recordAudit } from './audit';
+import { LRUCache } from 'lru-cache';
 import { db, prepared } from './index';
 import { invitations, memberships, projects, users, type Role } from './schema';
 
@@ -26,6 +27,19 @@ const roleCheck = prepared((database) =>
 /** The caller's role in an existing project, or undefined (no such project, or not a member): every request's check. */
 export function memberRole(projectId: number, userId: string): Role | undefined {
 	return roleCheck().get({ projectId, userId })?.role;
+}
+
+// roles kept per database change state: a membership change is a write, which moves the state
+const rolesAt = new LRUCache<string, { role: Role | undefined }>({ max: 5_000 });
+
+/** memberRole as of a change state the caller has just read (a GET's session check): no read while nothing was written. */
+export function memberRoleAt(state: string, projectId: number, userId: string): Role | undefined {
+	const key = `${state}\n${projectId}\n${userId}`;
+	const hit = rolesAt.get(key);
+	if (hit) return hit.role;
+	const role = memberRole(projectId, userId);
+	rolesAt.set(key, { role });
+	return role;
 }
 
 function roleOf(projectId: number, userId: string): Role {

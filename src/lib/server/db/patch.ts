@@ -1,5 +1,4 @@
 import { asc, eq, inArray } from 'drizzle-orm';
-import { randomBytes } from 'node:crypto';
 import {
 	analysePatch,
 	computePatch,
@@ -21,6 +20,7 @@ import type {
 	TypeShape,
 	UniverseShape
 } from '../../shapes';
+import { changeKey } from './change-state';
 import { db } from './index';
 import { getProject, projectShape } from './projects';
 import { fixtureTypes, fixtures, modeChannels, modes, receiverLabels, receivers, universes } from './schema';
@@ -379,26 +379,9 @@ interface CacheEntry {
 
 const patchCache = new Map<number, CacheEntry>();
 const MAX_CACHED_PROJECTS = 16;
-// the epoch tells one opened database from the next (counters restart), so a key names one state only
-let counter:
-	{ client: unknown; changes: { get(): unknown }; dataVersion: { get(): unknown }; epoch: string } | undefined;
-
-/** Names the database state: moves with every write by this process or any other connection. */
-export function changeKey(): string {
-	const client = db().$client;
-	// prepared once: better-sqlite3's pragma() prepares its statement anew on every call
-	if (counter?.client !== client)
-		counter = {
-			client,
-			changes: client.prepare('select total_changes()').pluck(),
-			dataVersion: client.prepare('pragma data_version').pluck(),
-			epoch: randomBytes(6).toString('base64url')
-		};
-	return `${counter.epoch}.${String(counter.dataVersion.get())}.${String(counter.changes.get())}`;
-}
-
-function cacheEntry(projectId: number): CacheEntry {
-	const key = changeKey();
+/** `state`: a change state the caller has just read (a GET's session check), saving a second read. */
+function cacheEntry(projectId: number, state?: string): CacheEntry {
+	const key = state ?? changeKey();
 	const hit = patchCache.get(projectId);
 	if (hit?.key === key) return hit;
 	const entry: CacheEntry = { key, data: loadPatch(projectId) };
@@ -442,22 +425,22 @@ export function patchJsonCached(projectId: number): string {
 }
 
 /** patchJsonCached with the version it was made at. */
-export function patchJsonVersioned(projectId: number): VersionedJson {
-	const entry = cacheEntry(projectId);
+export function patchJsonVersioned(projectId: number, state?: string): VersionedJson {
+	const entry = cacheEntry(projectId, state);
 	entry.json ??= JSON.stringify(entry.data);
 	return versioned(entry, 'patch', projectId, entry.json);
 }
 
 /** GET …/conflicts as JSON text, serialised once per change. */
-export function conflictsJsonCached(projectId: number): VersionedJson {
-	const entry = cacheEntry(projectId);
+export function conflictsJsonCached(projectId: number, state?: string): VersionedJson {
+	const entry = cacheEntry(projectId, state);
 	entry.conflictsJson ??= JSON.stringify({ conflicts: entry.data.conflicts });
 	return versioned(entry, 'conflicts', projectId, entry.conflictsJson);
 }
 
 /** GET …/fixtures (listFixtures: the rows, without what the engine computed) as JSON text, serialised once per change. */
-export function fixturesJsonCached(projectId: number): VersionedJson {
-	const entry = cacheEntry(projectId);
+export function fixturesJsonCached(projectId: number, state?: string): VersionedJson {
+	const entry = cacheEntry(projectId, state);
 	entry.fixturesJson ??= JSON.stringify({
 		fixtures: entry.data.fixtures.map(({ slots: _slots, footprint: _footprint, breakSlots: _breaks, ...f }) => f)
 	});

@@ -6,5 +6,5 @@ import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = api((event) => {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	return versionedJson(event.request, conflictsJsonCached(projectId));
+	return versionedJson(event.request, conflictsJsonCached(projectId, event.locals.readState));
 });

@@ -8,5 +8,5 @@ import type { RequestHandler } from './$types';
 // fixtures with computed slots, and every conflict. Serialised once per write, with an ETag.
 export const GET: RequestHandler = api((event) => {
 	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	return versionedJson(event.request, patchJsonVersioned(projectId));
+	return versionedJson(event.request, patchJsonVersioned(projectId, event.locals.readState));
 });
