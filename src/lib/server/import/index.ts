@@ -50,7 +50,8 @@ export async function importUpload(
 			throw new UnsupportedTypeError('A zip archive is read only as a GDTF fixture type (.gdtf).');
 		const { type, dataVersion, warnings } = await runJob<GdtfResult>(
 			{ kind: 'gdtf', bytes: upload.bytes },
-			'Reading the GDTF file'
+			'Reading the GDTF file',
+			userId
 		);
 		const exists = listTypes(projectId).some(
 			(t) => t.maker.toLowerCase() === type.maker.toLowerCase() && t.model.toLowerCase() === type.model.toLowerCase()
@@ -75,7 +76,8 @@ export async function importUpload(
 	// the worker answers the summary as JSON bytes (workers/tasks.ts summaryJson), or what the file is not
 	const job = await runJob<Uint8Array<ArrayBuffer> | { decoded: { isJson: boolean } | null }>(
 		{ kind: 'csv-import', bytes: upload.bytes, projectId, userId, apply },
-		apply ? 'Importing the CSV file' : 'Reading the CSV file'
+		apply ? 'Importing the CSV file' : 'Reading the CSV file',
+		userId
 	);
 	if (!(job instanceof Uint8Array) && !job.decoded)
 		throw new UnsupportedTypeError('The file is neither a CSV patch nor a GDTF fixture type.');

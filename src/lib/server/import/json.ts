@@ -20,8 +20,8 @@ export type { CheckedBackup } from './json-check';
  * The one check of a backup's bytes, for the restore route and any preview of a restore: decoded,
  * parsed and validated off the request loop; a job over its time or memory budget answers 422/413.
  */
-export function checkBackup(bytes: Uint8Array): Promise<CheckedBackup> {
-	return runJob<CheckedBackup>({ kind: 'json-backup', bytes }, 'Checking the project backup');
+export function checkBackup(bytes: Uint8Array, owner: string): Promise<CheckedBackup> {
+	return runJob<CheckedBackup>({ kind: 'json-backup', bytes }, 'Checking the project backup', owner);
 }
 
 /** Writes a checked backup as a new project owned by the user; a refused write leaves nothing. */

@@ -61,7 +61,7 @@ export async function previewRestore(userId: string, bytes: Uint8Array): Promise
 	const base = () => ({ name, restoredName: name ? restoredName(name) : '', problems: [] });
 	try {
 		// decoding and every check run in the worker pool (json.ts); only the rolled-back writes run here
-		const checked = await checkBackup(bytes);
+		const checked = await checkBackup(bytes, userId);
 		name = checked.project.name;
 		db().transaction(() => {
 			throw new RolledBack(countsOf(restoreBackup(userId, checked).id));
@@ -85,7 +85,7 @@ export async function previewRestore(userId: string, bytes: Uint8Array): Promise
 
 /** Restores the file as a new project owned by `userId`, named "<name> (restored <date>)". */
 export async function restoreRenamed(userId: string, bytes: Uint8Array): Promise<Project> {
-	const checked = await checkBackup(bytes);
+	const checked = await checkBackup(bytes, userId);
 	const renamed = { ...checked, project: { ...checked.project, name: restoredName(checked.project.name) } };
 	// restoreBackup writes in one transaction and answers the owner's view of the new project
 	return restoreBackup(userId, renamed);

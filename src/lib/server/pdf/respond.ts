@@ -86,14 +86,19 @@ export function sheetFileName(kind: SheetKind, projectName: string, revision: nu
 
 /** A member prints the live patch or any revision of their project. */
 export async function sheetResponse(event: RequestEvent, kind: SheetKind): Promise<Response> {
-	const { projectId } = requireRole(event, event.params.pid, 'viewer');
-	return renderSheet(projectId, kind, parseSheetQuery(event.url.searchParams, kind));
+	const { projectId, user } = requireRole(event, event.params.pid, 'viewer');
+	return renderSheet(projectId, kind, parseSheetQuery(event.url.searchParams, kind), user.id);
 }
 
-/** Renders one sheet after the caller's access to `query.revision` (or the live patch) is settled. */
-export async function renderSheet(projectId: number, kind: SheetKind, query: SheetQuery): Promise<Response> {
+/** Renders one sheet for `owner` (workers/pool.ts) after the caller's access to `query.revision` (or the live patch) is settled. */
+export async function renderSheet(
+	projectId: number,
+	kind: SheetKind,
+	query: SheetQuery,
+	owner: string
+): Promise<Response> {
 	const { task, name } = kind === 'power' ? powerTask(projectId, query) : patchTask(projectId, kind, query);
-	const pdf = await runJob<Uint8Array>(task, `Printing the ${SHEET_TITLE[kind].toLowerCase()}`);
+	const pdf = await runJob<Uint8Array>(task, `Printing the ${SHEET_TITLE[kind].toLowerCase()}`, owner);
 	return new Response(new Uint8Array(pdf), {
 		headers: {
 			'content-type': 'application/pdf',

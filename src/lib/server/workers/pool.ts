@@ -18,7 +18,14 @@ export const JOB_TIME_MS = Number(process.env.PATCHWRIGHT_JOB_TIME_MS || 30_000)
 /** old-generation heap of one worker thread */
 export const JOB_HEAP_MB = Number(process.env.PATCHWRIGHT_JOB_HEAP_MB || 512);
 
+/** heavy jobs one person (or one review link) may have waiting or running at once */
+export const JOBS_PER_OWNER = Math.max(1, Number(process.env.PATCHWRIGHT_JOBS_PER_OWNER || 2));
+/** jobs waiting for a thread, server-wide: past it a new job is refused at once, not queued for minutes */
+export const MAX_WAITING_JOBS = 32;
+
 let pool: Piscina | undefined;
+// jobs in flight per owner: one person's uploads and sheets cannot fill the pool everyone shares
+const inFlight = new Map<string, number>();
 
 export function workerFile(): string {
 	return resolve(process.env.PATCHWRIGHT_APP_DIR || '.', 'src/lib/server/workers/entry.mjs');
@@ -35,6 +42,7 @@ function thePool(): Piscina {
 		// two cores on a set laptop: one thread for sheets and imports leaves one for requests
 		maxThreads: Math.max(1, Number(process.env.PATCHWRIGHT_WORKERS || 2)),
 		idleTimeout: 60_000,
+		maxQueue: MAX_WAITING_JOBS,
 		resourceLimits: { maxOldGenerationSizeMb: JOB_HEAP_MB, maxYoungGenerationSizeMb: 64 }
 	});
 	return pool;
@@ -44,8 +52,30 @@ function isRefusal(v: unknown): v is Refusal {
 	return typeof v === 'object' && v !== null && 'refused' in v;
 }
 
-/** Runs one job in a worker; refusals come back as a JobRefusedError with the worker error's status, budgets answer 413/422. */
-export async function runJob<T>(task: Task, what: string): Promise<T> {
+/**
+ * Runs one job in a worker for `owner` (a user id, or a review link); refusals come back as a
+ * JobRefusedError with the worker error's status, budgets answer 413/422, an owner with
+ * JOBS_PER_OWNER jobs in flight 429, a full queue 503.
+ */
+export async function runJob<T>(task: Task, what: string, owner: string): Promise<T> {
+	const mine = inFlight.get(owner) ?? 0;
+	if (mine >= JOBS_PER_OWNER)
+		throw new JobRefusedError(
+			429,
+			`You already have ${JOBS_PER_OWNER} imports or printed sheets in progress; start this one when one of them is done. Nothing was written.`,
+			{ code: 'too-many-jobs' }
+		);
+	inFlight.set(owner, mine + 1);
+	try {
+		return await runOwnedJob<T>(task, what);
+	} finally {
+		const left = (inFlight.get(owner) ?? 1) - 1;
+		if (left > 0) inFlight.set(owner, left);
+		else inFlight.delete(owner);
+	}
+}
+
+async function runOwnedJob<T>(task: Task, what: string): Promise<T> {
 	let result: unknown;
 	try {
 		result = await thePool().run(task, { signal: AbortSignal.timeout(JOB_TIME_MS) });
@@ -56,6 +86,12 @@ export async function runJob<T>(task: Task, what: string): Promise<T> {
 				422,
 				`${what} took longer than ${JOB_TIME_MS / 1000} s and was stopped; nothing was written.`,
 				{ code: 'too-slow' }
+			);
+		if (/queue is at limit/i.test(e.message ?? ''))
+			throw new JobRefusedError(
+				503,
+				'The server is busy with other imports and printed sheets; try again in a minute. Nothing was written.',
+				{ code: 'busy' }
 			);
 		if (e.code === 'ERR_WORKER_OUT_OF_MEMORY' || /out of memory/i.test(e.message ?? ''))
 			throw new JobRefusedError(

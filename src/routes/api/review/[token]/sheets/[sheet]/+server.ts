@@ -11,7 +11,8 @@ export const GET: RequestHandler = api((event) => {
 	// own keys only: a sheet named constructor or __proto__ is no sheet
 	const kind = Object.hasOwn(SHEETS, event.params.sheet) ? SHEETS[event.params.sheet] : undefined;
 	if (!kind) throw new ApiError(404, 'No such sheet: use patch.pdf, labels.pdf or radio.pdf.');
-	const { revision } = resolveToken(event);
+	const { revision, link } = resolveToken(event);
 	const query = parseSheetQuery(event.url.searchParams, kind);
-	return renderSheet(revision.projectId, kind, { ...query, revision: revision.number });
+	// the link is the one who prints: everyone holding it shares its two jobs in flight
+	return renderSheet(revision.projectId, kind, { ...query, revision: revision.number }, `review-link:${link.id}`);
 });
