@@ -9,6 +9,31 @@ import { openDatabase, type Db } from '../../src/lib/server/db/index';
 // Starts the built server (npm run build first) on free loopback ports with a
 // fresh SQLite file and its own mail sink, exactly as `npm run serve` does.
 
+/**
+ * Free loopback ports, all different: each is held open until all are chosen, because a port closed
+ * straight away can be handed out again at once (the web server and its mail sink once drew the same
+ * one and the server failed to start with EADDRINUSE).
+ */
+export async function freePorts(count: number): Promise<number[]> {
+	const held = await Promise.all(
+		Array.from(
+			{ length: count },
+			() =>
+				new Promise<ReturnType<typeof createServer>>((res, rej) => {
+					const srv = createServer();
+					srv.once('error', rej);
+					srv.listen(0, '127.0.0.1', () => res(srv));
+				})
+		)
+	);
+	const ports = held.map((srv) => {
+		const address = srv.address();
+		return typeof address === 'object' && address ? address.port : 0;
+	});
+	await Promise.all(held.map((srv) => new Promise((res) => srv.close(res))));
+	return ports;
+}
+
 export function freePort(): Promise<number> {
 	return new Promise((res, rej) => {
 		const srv = createServer();
@@ -45,7 +70,7 @@ export interface StartOptions {
 
 export async function startServer(options: StartOptions = {}): Promise<TestServer> {
 	const dir = options.dir ?? mkdtempSync(join(tmpdir(), 'patchwright-test-'));
-	const [port, smtpPort] = [await freePort(), await freePort()];
+	const [port, smtpPort] = await freePorts(2);
 	const url = `http://127.0.0.1:${port}`;
 	const dbPath = join(dir, 'test.db');
 	const mailDir = join(dir, 'mail');
